@@ -1,0 +1,54 @@
+/**
+ * Registry of every column meltsweep writes: name, unit, Arrow type, description.
+ * The Arrow schema, CSV header, README table and --json keys all derive from it.
+ */
+
+export type FieldKind = 'float64' | 'int64' | 'uint8' | 'status' | 'utf8';
+
+export interface FieldInfo {
+  readonly name: string;
+  readonly unit: string;
+  readonly kind: FieldKind;
+  readonly nullable: boolean;
+  readonly description: string;
+}
+
+/** The four scenario inputs, in sweep-file order. */
+export const INPUT_FIELDS = [
+  { name: 'tp_c', unit: 'degC', kind: 'float64', nullable: false, description: 'mantle potential temperature' },
+  { name: 'water_ppm', unit: 'ppm', kind: 'float64', nullable: false, description: 'bulk water of the source (ug/g)' },
+  { name: 'lid_km', unit: 'km', kind: 'float64', nullable: false, description: 'thickness of the conductive lid; melting stops at its base' },
+  { name: 'upwelling_mm_yr', unit: 'mm/yr', kind: 'float64', nullable: true, description: 'solid upwelling rate (null when not given)' },
+] as const satisfies readonly FieldInfo[];
+
+export type InputName = (typeof INPUT_FIELDS)[number]['name'];
+export const INPUT_NAMES: readonly InputName[] = INPUT_FIELDS.map((f) => f.name);
+
+/** Numeric result fields, in output order (status and reason are separate). */
+export const RESULT_NUMERIC_FIELDS = [
+  { name: 'onset_p_gpa', unit: 'GPa', kind: 'float64', nullable: true, description: 'pressure where melting starts' },
+  { name: 'onset_depth_km', unit: 'km', kind: 'float64', nullable: true, description: 'depth where melting starts (z = P / (rho_s g))' },
+  { name: 'top_p_gpa', unit: 'GPa', kind: 'float64', nullable: true, description: 'pressure where melting stops (base of the lid, or the surface)' },
+  { name: 'top_depth_km', unit: 'km', kind: 'float64', nullable: true, description: 'depth where melting stops' },
+  { name: 'f_max', unit: 'fraction', kind: 'float64', nullable: true, description: 'largest melt fraction in the column (mass fraction, 0-1)' },
+  { name: 'f_mean', unit: 'fraction', kind: 'float64', nullable: true, description: 'mean melt fraction over the melting interval, integral F dP / (P_onset - P_top)' },
+  { name: 'crust_km', unit: 'km', kind: 'float64', nullable: true, description: 'crust thickness of the passive melting regime, integral F dP / (rho_c g); 0 for no_melt, null for failed' },
+  { name: 't_top_c', unit: 'degC', kind: 'float64', nullable: true, description: 'temperature at the top of the melting column' },
+  { name: 'h2o_melt_wt_pct', unit: 'wt%', kind: 'float64', nullable: true, description: 'water in the pooled melt' },
+  { name: 'productivity_pct_per_gpa', unit: '%/GPa', kind: 'float64', nullable: true, description: 'mean isentropic productivity -dF/dP x 100 over the column' },
+  { name: 'melt_flux_kg_m2_yr', unit: 'kg/m2/yr', kind: 'float64', nullable: true, description: 'melt flux of an upwelling column, rho_s w F_max (null without an upwelling rate)' },
+  { name: 'surface_heat_flow_mw_m2', unit: 'mW/m2', kind: 'float64', nullable: true, description: 'conductive heat flow through the lid (conductive runs only)' },
+] as const satisfies readonly FieldInfo[];
+
+export type ResultNumericName = (typeof RESULT_NUMERIC_FIELDS)[number]['name'];
+export const RESULT_NUMERIC_NAMES: readonly ResultNumericName[] = RESULT_NUMERIC_FIELDS.map((f) => f.name);
+
+export const STATUS_FIELD = {
+  name: 'status', unit: '', kind: 'status', nullable: false,
+  description: 'ok | no_melt | onset_beyond_range | failed',
+} as const satisfies FieldInfo;
+
+export const REASON_FIELD = {
+  name: 'reason', unit: '', kind: 'utf8', nullable: true,
+  description: 'why a scenario failed or fell outside the model range (null otherwise)',
+} as const satisfies FieldInfo;

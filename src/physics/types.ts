@@ -1,0 +1,70 @@
+/**
+ * The contract between the physics and everything that calls it (planner, workers,
+ * writers, CLI). Field names are the Arrow column names; units are in src/physics/fields.ts.
+ */
+import type { MeltParams } from './params.js';
+
+/** One scenario: the four swept inputs, in these units. */
+export interface Scenario {
+  /** mantle potential temperature, degC */
+  readonly tp_c: number;
+  /** bulk water of the source, ppm by weight (default 0) */
+  readonly water_ppm: number;
+  /** thickness of the rigid conductive lid, km (default 0) */
+  readonly lid_km: number;
+  /** solid upwelling rate, mm/yr; NaN when not given */
+  readonly upwelling_mm_yr: number;
+}
+
+export const COLUMN_STATUSES = ['ok', 'no_melt', 'onset_beyond_range', 'failed'] as const;
+export type ColumnStatus = (typeof COLUMN_STATUSES)[number];
+
+export type ThermalModel = 'isentropic' | 'conductive';
+export type WaterMode = 'batch' | 'fractional';
+
+/** How a column is computed. `thermal: 'auto'` means conductive with an upwelling rate, else isentropic. */
+export interface ModelOptions {
+  readonly thermal: ThermalModel | 'auto';
+  readonly water: WaterMode;
+  readonly params: MeltParams;
+  /** isentropic pressure step, GPa (default 0.05) */
+  readonly stepGpa?: number;
+  /** return the profile arrays along the column */
+  readonly withProfile?: boolean;
+}
+
+/** Arrays along the column, from onset (deepest) to the top of melting. */
+export interface ColumnProfile {
+  readonly p_gpa: Float64Array;
+  readonly depth_km: Float64Array;
+  readonly t_c: Float64Array;
+  readonly f: Float64Array;
+  readonly h2o_melt_wt_pct: Float64Array;
+}
+
+/**
+ * Result of one column. Numbers are null where they do not apply (no_melt rows have null
+ * onset fields and crust_km = 0; melt_flux_kg_m2_yr is null without an upwelling rate;
+ * surface_heat_flow_mw_m2 is null for isentropic runs).
+ */
+export interface ColumnResult {
+  status: ColumnStatus;
+  /** why the column failed or fell outside the range; null for ok and no_melt rows */
+  reason: string | null;
+  onset_p_gpa: number | null;
+  onset_depth_km: number | null;
+  top_p_gpa: number | null;
+  top_depth_km: number | null;
+  f_max: number | null;
+  f_mean: number | null;
+  crust_km: number | null;
+  t_top_c: number | null;
+  h2o_melt_wt_pct: number | null;
+  productivity_pct_per_gpa: number | null;
+  melt_flux_kg_m2_yr: number | null;
+  surface_heat_flow_mw_m2: number | null;
+  profile?: ColumnProfile;
+}
+
+/** Deepest pressure the model covers, GPa: onset deeper than this is `onset_beyond_range`. */
+export const MODEL_MAX_P_GPA = 8;
