@@ -1,0 +1,39 @@
+/**
+ * What a planned sweep offers: a point count and lazy generation of any contiguous index
+ * range. Nothing proportional to the point count is ever materialised.
+ */
+import type { InputName } from '../physics/fields.js';
+import type { DesignKind } from '../spec/types.js';
+
+/** Struct-of-arrays batch of scenario inputs; upwelling_mm_yr is NaN where not given. */
+export interface PointBatch {
+  readonly tp_c: Float64Array;
+  readonly water_ppm: Float64Array;
+  readonly lid_km: Float64Array;
+  readonly upwelling_mm_yr: Float64Array;
+  /** saltelli block of each row (0 = A, 1 = B, 2 + i = AB_i for swept input i); null for other designs */
+  readonly block: Uint8Array | null;
+}
+
+/**
+ * The layout an analyzer needs, as plain data.
+ * - grid: row index is mixed-radix over the axes in order, the last axis fastest;
+ * - saltelli: rows are `base` consecutive groups of (2 + k) rows each... see planner docs for the exact order;
+ * - latin-hypercube / sobol: independent samples, no structure beyond the count.
+ */
+export type DesignLayout =
+  | { readonly kind: 'grid'; readonly axes: readonly { readonly name: InputName; readonly values: readonly number[] }[] }
+  | { readonly kind: 'saltelli'; readonly base: number; readonly inputs: readonly InputName[]; readonly blockOrder: 'row-groups' | 'block-major' }
+  | { readonly kind: 'latin-hypercube' | 'sobol'; readonly samples: number; readonly inputs: readonly InputName[] };
+
+export interface Plan {
+  readonly count: number;
+  readonly design: DesignKind;
+  /** the swept inputs, in spec order */
+  readonly axisNames: readonly InputName[];
+  readonly layout: DesignLayout;
+  /** whether rows carry a saltelli block tag */
+  readonly hasBlocks: boolean;
+  /** write points [start, end) into out (arrays of length >= end - start) */
+  fill(start: number, end: number, out: PointBatch): void;
+}
