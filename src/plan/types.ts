@@ -18,12 +18,14 @@ export interface PointBatch {
 /**
  * The layout an analyzer needs, as plain data.
  * - grid: row index is mixed-radix over the axes in order, the last axis fastest;
- * - saltelli: rows are `base` consecutive groups of (2 + k) rows each... see planner docs for the exact order;
+ * - saltelli (block-major): rows [0, N) are matrix A, [N, 2N) matrix B, and [(2 + i) N, (3 + i) N) matrix
+ *   AB_i (A with column i taken from B), i over the swept inputs in spec order; N = base, k inputs,
+ *   count = N (k + 2). Row j of every block shares the same base sample j;
  * - latin-hypercube / sobol: independent samples, no structure beyond the count.
  */
 export type DesignLayout =
   | { readonly kind: 'grid'; readonly axes: readonly { readonly name: InputName; readonly values: readonly number[] }[] }
-  | { readonly kind: 'saltelli'; readonly base: number; readonly inputs: readonly InputName[]; readonly blockOrder: 'row-groups' | 'block-major' }
+  | { readonly kind: 'saltelli'; readonly base: number; readonly inputs: readonly InputName[] }
   | { readonly kind: 'latin-hypercube' | 'sobol'; readonly samples: number; readonly inputs: readonly InputName[] };
 
 export interface Plan {
