@@ -21,9 +21,15 @@ export function liquidusC(pGpa: number, p: MeltParams): number {
   return p.C1 + pGpa * (p.C2 + pGpa * p.C3);
 }
 
-/** Melt fraction at which clinopyroxene is exhausted, F_cpx_out = M_cpx / (r1 + r2 P). */
+/**
+ * Melt fraction at which clinopyroxene is exhausted, F_cpx_out = M_cpx / (r1 + r2 P), capped at 1.
+ * The cap matters only for parameter overrides (large M_cpx, small or negative r1 + r2 P): when the
+ * reaction coefficient cannot use up the cpx before the source is fully molten (R_cpx <= M_cpx,
+ * including R_cpx <= 0), cpx is never exhausted and the beta1 law runs to F = 1 at T_lherz.
+ */
 export function fCpxOut(pGpa: number, p: MeltParams): number {
-  return p.M_cpx / (p.r1 + p.r2 * pGpa);
+  const rCpx = p.r1 + p.r2 * pGpa;
+  return rCpx > p.M_cpx ? p.M_cpx / rCpx : 1;
 }
 
 /** Temperature of cpx exhaustion (anhydrous), degC. */
@@ -80,16 +86,60 @@ export function dryMeltFraction(tEffC: number, pGpa: number, p: MeltParams): num
 
 /**
  * Effective temperature T' = T + dT_H2O (degC) at which the anhydrous law gives melt
- * fraction f: the explicit inverse of dryMeltFraction for 0 <= f <= 1.
+ * fraction f: the explicit inverse of dryMeltFraction. f is clamped to [0, 1]
+ * (f = 0 gives the anhydrous solidus, f = 1 the liquidus).
  */
 export function dryTempForMeltFraction(f: number, pGpa: number, p: MeltParams): number {
+  return dryTempFromCurves(f, setMeltingCurves(createMeltingCurves(), pGpa, p), p);
+}
+
+/**
+ * The anhydrous curves at one pressure (all degC, fCpx a mass fraction). A column step evaluates
+ * the melting law many times at the same pressure; computing these once per pressure keeps the
+ * inner solve to one power function per evaluation. Fields are mutable so one object can be
+ * reused along a column without allocation.
+ */
+export interface MeltingCurves {
+  tSolC: number;
+  tLherzC: number;
+  fCpx: number;
+  tCpxC: number;
+  tLiqC: number;
+}
+
+/** A zeroed MeltingCurves scratch object (fill it with setMeltingCurves). */
+export function createMeltingCurves(): MeltingCurves {
+  return { tSolC: 0, tLherzC: 0, fCpx: 0, tCpxC: 0, tLiqC: 0 };
+}
+
+/** Fill `out` with the anhydrous curves at pGpa (Katz et al. 2003, eqs. 4-10) and return it. */
+export function setMeltingCurves(out: MeltingCurves, pGpa: number, p: MeltParams): MeltingCurves {
   const tSol = drySolidusC(pGpa, p);
   const tLherz = lherzLiquidusC(pGpa, p);
   const fCpx = fCpxOut(pGpa, p);
-  if (f < fCpx) return tSol + (tLherz - tSol) * Math.pow(f, 1 / p.beta1);
-  const tCpx = Math.pow(fCpx, 1 / p.beta1) * (tLherz - tSol) + tSol;
-  const tLiq = liquidusC(pGpa, p);
-  return tCpx + (tLiq - tCpx) * Math.pow((f - fCpx) / (1 - fCpx), 1 / p.beta2);
+  out.tSolC = tSol;
+  out.tLherzC = tLherz;
+  out.fCpx = fCpx;
+  out.tCpxC = Math.pow(fCpx, 1 / p.beta1) * (tLherz - tSol) + tSol;
+  out.tLiqC = liquidusC(pGpa, p);
+  return out;
+}
+
+/** Explicit inverse T'(f) (degC) of the anhydrous law from precomputed curves; f clamped to [0, 1]. */
+export function dryTempFromCurves(f: number, c: MeltingCurves, p: MeltParams): number {
+  const ff = f < 0 ? 0 : f > 1 ? 1 : f;
+  if (ff < c.fCpx || c.fCpx >= 1) return c.tSolC + (c.tLherzC - c.tSolC) * Math.pow(ff, 1 / p.beta1);
+  return c.tCpxC + (c.tLiqC - c.tCpxC) * Math.pow((ff - c.fCpx) / (1 - c.fCpx), 1 / p.beta2);
+}
+
+/**
+ * Slope dT'/df (degC per unit melt fraction) of the anhydrous inverse at f, given tEffC =
+ * dryTempFromCurves(f, c, p) so that no second power function is needed. Infinite at f = 0 and at
+ * cpx exhaustion when beta > 1 (the melting law has zero slope in T there).
+ */
+export function dryTempSlopeFromCurves(f: number, tEffC: number, c: MeltingCurves, p: MeltParams): number {
+  if (f < c.fCpx || c.fCpx >= 1) return (tEffC - c.tSolC) / (p.beta1 * f);
+  return (tEffC - c.tCpxC) / (p.beta2 * (f - c.fCpx));
 }
 
 /**

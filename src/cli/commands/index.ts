@@ -1,6 +1,13 @@
 import type { Command } from 'commander';
+import { registerDemo } from './demo.js';
+import { registerRun } from './run.js';
+import { registerMerge } from './merge.js';
+import { registerPlan } from './plan.js';
 
 /** Every command, in the order `meltsweep --help` lists them. */
 export function registerCommands(program: Command): void {
-  void program;
+  registerDemo(program);
+  registerPlan(program);
+  registerRun(program);
+  registerMerge(program);
 }

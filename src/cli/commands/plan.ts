@@ -1,0 +1,33 @@
+import type { Command } from 'commander';
+import os from 'node:os';
+import { loadSweepFile, sweepHash } from '../../spec/index.js';
+import { describePlan, parseShardArg, planSweep, shardRange } from '../../plan/index.js';
+import { estimateRun, formatBytes } from '../../run/estimate.js';
+import { formatDuration } from '../../run/progress.js';
+import { parseWorkers } from '../options.js';
+
+export function registerPlan(program: Command): void {
+  program
+    .command('plan')
+    .description('show what a sweep file will compute (points, axes, design), a time estimate and the output size, without running it')
+    .argument('<sweep>', 'sweep file (YAML or JSON)')
+    .option('-w, --workers <n>', 'worker threads to estimate for (default: all available cores)', parseWorkers)
+    .option('--shard <k/n>', 'estimate one shard (k of n, or "auto")')
+    .action(async (sweep: string, o: { workers?: number; shard?: string }) => {
+      const spec = await loadSweepFile(sweep);
+      const plan = planSweep(spec);
+      const workers = o.workers ?? os.availableParallelism();
+      const shard = o.shard === undefined ? undefined : parseShardArg(o.shard, process.env);
+      const range = shard ? shardRange(plan.count, shard.k, shard.n) : { start: 0, end: plan.count };
+      const rows = range.end - range.start;
+      const lines = [...describePlan(spec, plan), `sweep hash: ${sweepHash(spec)}`];
+      if (shard) lines.push(`shard ${shard.k}/${shard.n}: rows ${range.start}-${range.end} (${rows.toLocaleString('en-US')} rows)`);
+      const est = estimateRun(spec, rows, workers);
+      lines.push(
+        `calibration: ${est.calibrationColumns} columns on this machine, ${Math.round(est.columnsPerSecondPerCore).toLocaleString('en-US')} columns/s per core`,
+        `estimated time: ${formatDuration(est.seconds)} with ${workers} worker${workers === 1 ? '' : 's'}`,
+        `estimated output: ${formatBytes(est.bytes)} (${est.bytesPerRow.toFixed(0)} bytes per row)`,
+      );
+      process.stdout.write(`${lines.join('\n')}\n`);
+    });
+}

@@ -1,0 +1,100 @@
+import type { Command } from 'commander';
+import { InputError } from '../../errors.js';
+import { loadSweepFile } from '../../spec/index.js';
+import { parseShardArg } from '../../plan/index.js';
+import { runSweep, type RunSummary } from '../../run/run-sweep.js';
+import { createProgress } from '../../run/progress.js';
+import { planSweep, shardRange } from '../../plan/index.js';
+import { parseNumberOption, parseWorkers } from '../options.js';
+import { formatRunSummary } from '../run-report.js';
+
+export interface RunCommandOptions {
+  readonly output: string;
+  readonly workers?: number;
+  readonly resume?: boolean;
+  readonly force?: boolean;
+  readonly shard?: string;
+  readonly quiet?: boolean;
+  readonly summary?: boolean;
+  readonly commitSeconds?: number;
+}
+
+/** Exit code of an interrupted run (128 + SIGINT), the shell convention. */
+export const EXIT_INTERRUPTED = 130;
+
+/**
+ * Run a sweep file the way `meltsweep run` does: Ctrl-C stops cleanly (a second Ctrl-C
+ * exits at once; committed rows are kept either way).
+ */
+export async function executeRun(sweepPath: string, o: RunCommandOptions): Promise<RunSummary> {
+  const spec = await loadSweepFile(sweepPath);
+  const shard = o.shard === undefined ? undefined : parseShardArg(o.shard, process.env);
+  const plan = planSweep(spec);
+  const range = shard ? shardRange(plan.count, shard.k, shard.n) : { start: 0, end: plan.count };
+  const controller = new AbortController();
+  let sigints = 0;
+  const onSigint = (): void => {
+    sigints++;
+    if (sigints === 1) {
+      process.stderr.write('\nstopping: finishing the chunks in flight and keeping every finished row (Ctrl-C again to quit at once)\n');
+      controller.abort();
+    } else {
+      process.exit(EXIT_INTERRUPTED);
+    }
+  };
+  process.on('SIGINT', onSigint);
+  process.on('SIGTERM', onSigint);
+  try {
+    const summary = await runSweep({
+      spec,
+      outPath: o.output,
+      workers: o.workers,
+      resume: o.resume,
+      force: o.force,
+      shard,
+      signal: controller.signal,
+      segmentSeconds: o.commitSeconds,
+      progress: o.quiet ? null : createProgress({ totalRows: range.end - range.start, startRows: 0, stream: process.stderr }),
+    });
+    return summary;
+  } finally {
+    process.off('SIGINT', onSigint);
+    process.off('SIGTERM', onSigint);
+  }
+}
+
+/** Print a finished or interrupted run and set the exit code. */
+export async function reportRun(summary: RunSummary, o: RunCommandOptions, resumeHint: string): Promise<void> {
+  if (summary.interrupted) {
+    process.stderr.write(
+      `interrupted after ${summary.rows.toLocaleString('en-US')} of ${(summary.rowEnd - summary.rowStart).toLocaleString('en-US')} rows; ` +
+        `every finished row is kept. To finish: ${resumeHint}\n`,
+    );
+    process.exitCode = EXIT_INTERRUPTED;
+    return;
+  }
+  process.stdout.write(`${formatRunSummary(summary)}\n`);
+}
+
+export function registerRun(program: Command): void {
+  program
+    .command('run')
+    .description('run a sweep file and write one Arrow table with a row per scenario')
+    .argument('<sweep>', 'sweep file (YAML or JSON)')
+    .requiredOption('-o, --output <file>', 'output Arrow IPC file')
+    .option('-w, --workers <n>', 'worker threads (default: all available cores)', parseWorkers)
+    .option('--resume', 'finish an interrupted run of the same sweep')
+    .option('--force', 'replace an existing output and discard a partial run')
+    .option('--shard <k/n>', 'compute only shard k of n (1-based), or "auto" from a batch scheduler array job')
+    .option('-q, --quiet', 'no progress output')
+    .option('--no-summary', 'do not compute and print the sensitivity summary')
+    .option('--commit-seconds <s>', 'commit finished rows to disk at least this often (default 3)', (v: string) =>
+      parseNumberOption('--commit-seconds', v, 0.05, 3600, 's'),
+    )
+    .action(async (sweep: string, o: RunCommandOptions) => {
+      if (o.resume && o.force) throw new InputError('--resume and --force: choose one (resume keeps finished rows, force starts over)');
+      const summary = await executeRun(sweep, o);
+      const again = `meltsweep run ${sweep} -o ${o.output}${o.shard ? ` --shard ${o.shard}` : ''} --resume`;
+      await reportRun(summary, o, again);
+    });
+}

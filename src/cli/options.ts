@@ -1,0 +1,15 @@
+/** Option parsers shared by commands: each throws InputError naming the option, value and what is allowed. */
+import { InputError } from '../errors.js';
+
+export function parseWorkers(value: string): number {
+  const n = Number(value);
+  if (!Number.isInteger(n) || n < 1 || n > 1024) throw new InputError(`--workers: ${value} is not allowed; give a whole number from 1 to 1024`);
+  return n;
+}
+
+export function parseNumberOption(option: string, value: string, min: number, max: number, unit: string): number {
+  const n = Number(value);
+  if (value.trim() === '' || !Number.isFinite(n)) throw new InputError(`${option}: ${JSON.stringify(value)} is not a number; allowed ${min} to ${max} ${unit}`);
+  if (n < min || n > max) throw new InputError(`${option}: ${value} ${unit} is outside the allowed range ${min} to ${max} ${unit}`);
+  return n;
+}

@@ -1,0 +1,149 @@
+/**
+ * Arrow IPC files on disk: a streaming file-format writer with bounded memory (every batch
+ * reaches the disk before the next is accepted), atomic publication (temporary name, fsync,
+ * rename), and batch-by-batch readers.
+ */
+import * as arrow from 'apache-arrow';
+import fs from 'node:fs';
+import path from 'node:path';
+
+/** Flush pending microtasks so the writer's byte queue is drained into the file. */
+function drainTick(): Promise<void> {
+  return new Promise((resolve) => setImmediate(resolve));
+}
+
+/**
+ * Writes an Arrow IPC file (random-access format) batch by batch to `tmpPath`;
+ * `publish()` fsyncs it and renames it to its final name, so a reader never sees a
+ * half-written file under the final name.
+ */
+export class IpcFileSink {
+  private readonly fd: number;
+  private readonly writer: arrow.RecordBatchFileWriter;
+  private readonly pump: Promise<void>;
+  private writeError: unknown = null;
+  private closed = false;
+  rows = 0;
+
+  constructor(
+    readonly finalPath: string,
+    readonly tmpPath: string,
+    schema: arrow.Schema,
+  ) {
+    const fd = fs.openSync(tmpPath, 'w');
+    const writer = new arrow.RecordBatchFileWriter();
+    writer.reset(undefined, schema);
+    this.fd = fd;
+    this.writer = writer;
+    this.pump = (async () => {
+      for await (const bytes of writer) {
+        if (this.writeError !== null) continue;
+        try {
+          fs.writeSync(fd, bytes as Uint8Array);
+        } catch (err) {
+          this.writeError = err;
+        }
+      }
+    })();
+  }
+
+  private check(): void {
+    if (this.writeError !== null) {
+      const e = this.writeError;
+      throw new Error(`cannot write ${this.tmpPath}: ${e instanceof Error ? e.message : String(e)}`);
+    }
+  }
+
+  async write(batch: arrow.RecordBatch): Promise<void> {
+    this.writer.write(batch);
+    this.rows += batch.numRows;
+    await drainTick();
+    this.check();
+  }
+
+  /** Finish the footer, fsync, rename to the final path and fsync the folder. */
+  async publish(): Promise<void> {
+    this.writer.finish();
+    this.writer.close();
+    await this.pump;
+    this.check();
+    fs.fsyncSync(this.fd);
+    fs.closeSync(this.fd);
+    this.closed = true;
+    fs.renameSync(this.tmpPath, this.finalPath);
+    fsyncDir(path.dirname(this.finalPath));
+  }
+
+  /** Abandon the file (removes the temporary file). */
+  async abort(): Promise<void> {
+    if (this.closed) return;
+    this.closed = true;
+    try {
+      this.writer.close();
+      await this.pump;
+    } catch {
+      // already failing
+    }
+    try {
+      fs.closeSync(this.fd);
+    } catch {
+      // already closed
+    }
+    fs.rmSync(this.tmpPath, { force: true });
+  }
+}
+
+/** fsync a folder so a rename inside it survives a crash (best effort where unsupported). */
+export function fsyncDir(dir: string): void {
+  let fd: number | null = null;
+  try {
+    fd = fs.openSync(dir, 'r');
+    fs.fsyncSync(fd);
+  } catch {
+    // some file systems refuse fsync on folders; the rename is still atomic
+  } finally {
+    if (fd !== null) fs.closeSync(fd);
+  }
+}
+
+/** Write bytes to `finalPath` atomically: temporary file, fsync, rename, fsync folder. */
+export function writeFileAtomic(finalPath: string, bytes: Uint8Array | string): void {
+  const tmp = `${finalPath}.tmp-${process.pid}`;
+  const fd = fs.openSync(tmp, 'w');
+  try {
+    fs.writeSync(fd, typeof bytes === 'string' ? Buffer.from(bytes) : bytes);
+    fs.fsyncSync(fd);
+  } finally {
+    fs.closeSync(fd);
+  }
+  fs.renameSync(tmp, finalPath);
+  fsyncDir(path.dirname(finalPath));
+}
+
+/** The schema of an Arrow IPC file or stream, read without loading its batches. */
+export async function readIpcSchema(filePath: string): Promise<arrow.Schema> {
+  const handle = await fs.promises.open(filePath, 'r');
+  try {
+    const reader = await arrow.RecordBatchReader.from(handle);
+    await reader.open();
+    return reader.schema;
+  } finally {
+    await handle.close().catch(() => undefined);
+  }
+}
+
+/** Batches of an IPC file or stream, one at a time, read from disk as they are needed. */
+export async function* readIpcBatches(filePath: string): AsyncGenerator<arrow.RecordBatch> {
+  const handle = await fs.promises.open(filePath, 'r');
+  try {
+    const reader = await arrow.RecordBatchReader.from(handle);
+    for await (const batch of reader) yield batch;
+  } finally {
+    await handle.close().catch(() => undefined);
+  }
+}
+
+/** A whole IPC table in memory (for analysis and tests of small outputs). */
+export function readIpcTable(filePath: string): arrow.Table {
+  return arrow.tableFromIPC(fs.readFileSync(filePath));
+}

@@ -1,0 +1,354 @@
+/**
+ * Run a sweep: split the index range into chunks, integrate them on a piscina pool, write
+ * the results in scenario order into committed segments, and publish one Arrow IPC file.
+ *
+ * Memory is bounded by the in-flight window (finished chunks wait in a small reorder buffer;
+ * no new chunk is submitted while the window is full) and by the segment size.
+ */
+import * as arrow from 'apache-arrow';
+import fs from 'node:fs';
+import os from 'node:os';
+import path from 'node:path';
+import { pathToFileURL } from 'node:url';
+import { Piscina } from 'piscina';
+import { InputError, RunError } from '../errors.js';
+import { COLUMN_STATUSES, type ColumnStatus } from '../physics/types.js';
+import { resolveParams } from '../physics/params.js';
+import { planSweep, shardRange } from '../plan/index.js';
+import { sweepHash } from '../spec/index.js';
+import type { SweepSpec } from '../spec/types.js';
+import { TOOL_VERSION } from '../version.js';
+import { chunkToRecordBatch, withSharedDictionary } from '../io/arrow-batch.js';
+import { makeStatusDictionary, resultsSchema, type ResultsTableMeta } from '../io/arrow-schema.js';
+import { IpcFileSink, readIpcBatches, readIpcSchema } from '../io/ipc-file.js';
+import { partialDirFor, SegmentStore, type PartialManifest } from '../io/segment-store.js';
+import { failedChunk, makeChunkContext, type ChunkResult } from './compute-chunk.js';
+import { defaultChunkSize } from './chunks.js';
+import type { ProgressSink } from './progress.js';
+import type { ChunkTask } from './task.js';
+import { sweepWorkerFile } from './worker-file.js';
+
+export interface ShardSelection {
+  /** 1-based shard number */
+  readonly k: number;
+  readonly n: number;
+}
+
+export interface RunOptions {
+  readonly spec: SweepSpec;
+  readonly outPath: string;
+  /** worker threads (default: all available cores) */
+  readonly workers?: number;
+  /** continue a partial run of the same sweep */
+  readonly resume?: boolean;
+  /** replace an existing output file and discard a partial run */
+  readonly force?: boolean;
+  readonly shard?: ShardSelection;
+  /** rows per task (default from the thermal model and the range size) */
+  readonly chunkSize?: number;
+  /** commit a segment after this many rows ... */
+  readonly segmentRows?: number;
+  /** ... or after this many seconds, whichever comes first */
+  readonly segmentSeconds?: number;
+  readonly progress?: ProgressSink | null;
+  /** stop cleanly when aborted (Ctrl-C): finished rows are committed, the run is resumable */
+  readonly signal?: AbortSignal;
+  /** a different worker module (tests inject faults with it) */
+  readonly workerFile?: string;
+}
+
+export interface RunSummary {
+  readonly outPath: string;
+  readonly rowStart: number;
+  readonly rowEnd: number;
+  readonly rows: number;
+  /** rows computed by this process (the rest came from an earlier, interrupted run) */
+  readonly computedRows: number;
+  readonly counts: Readonly<Record<ColumnStatus, number>>;
+  readonly seconds: number;
+  readonly workers: number;
+  readonly chunkSize: number;
+  /** chunks whose worker failed once and were retried */
+  readonly retriedChunks: number;
+  /** chunks whose worker failed twice: their rows are recorded as failed */
+  readonly lostChunks: number;
+  readonly interrupted: boolean;
+  readonly sweepHash: string;
+}
+
+function emptyCounts(): Record<ColumnStatus, number> {
+  return Object.fromEntries(COLUMN_STATUSES.map((s) => [s, 0])) as Record<ColumnStatus, number>;
+}
+
+/** Refuse, before any work, outputs that cannot be written or would be overwritten. */
+function checkOutput(outPath: string, force: boolean, resume: boolean): void {
+  const dir = path.dirname(path.resolve(outPath));
+  if (!fs.existsSync(dir)) throw new InputError(`--output: folder ${dir} does not exist`);
+  try {
+    fs.accessSync(dir, fs.constants.W_OK);
+  } catch {
+    throw new InputError(`--output: folder ${dir} is not writable`);
+  }
+  if (fs.existsSync(outPath) && !force && !resume) {
+    throw new InputError(`--output: ${outPath} already exists; use --force to replace it (or --resume to finish a partial run)`);
+  }
+}
+
+/** Remove temporary files left by a process killed while publishing. */
+function removeStaleTemporaries(outPath: string): void {
+  const dir = path.dirname(path.resolve(outPath));
+  const prefix = `${path.basename(outPath)}.tmp-`;
+  for (const name of fs.readdirSync(dir)) if (name.startsWith(prefix)) fs.rmSync(path.join(dir, name), { force: true });
+}
+
+async function existingOutputMatches(outPath: string, manifest: PartialManifest): Promise<boolean> {
+  try {
+    const md = (await readIpcSchema(outPath)).metadata;
+    return md.get('meltsweep.sweep_hash') === manifest.sweepHash && md.get('meltsweep.row_range') === `${manifest.rowStart}-${manifest.rowEnd}`;
+  } catch {
+    return false;
+  }
+}
+
+/**
+ * Run (or resume) a sweep and publish its results table.
+ * @throws InputError for outputs that cannot be used; RunError when writing fails (the partial
+ *   run stays resumable).
+ */
+export async function runSweep(opts: RunOptions): Promise<RunSummary> {
+  const t0 = performance.now();
+  const spec = opts.spec;
+  const plan = planSweep(spec);
+  const params = resolveParams(spec.model.params);
+  const hash = sweepHash(spec);
+  const { start: rowStart, end: rowEnd } = opts.shard ? shardRange(plan.count, opts.shard.k, opts.shard.n) : { start: 0, end: plan.count };
+  const workers = Math.max(1, Math.floor(opts.workers ?? os.availableParallelism()));
+  const outPath = path.resolve(opts.outPath);
+  const force = opts.force === true;
+  const resume = opts.resume === true;
+  checkOutput(outPath, force, resume);
+
+  const partialDir = partialDirFor(outPath);
+  const manifest: PartialManifest = {
+    sweepHash: hash,
+    rowStart,
+    rowEnd,
+    chunkSize: opts.chunkSize ?? defaultChunkSize(spec, rowEnd - rowStart),
+    toolVersion: TOOL_VERSION,
+  };
+  if (force) fs.rmSync(partialDir, { recursive: true, force: true });
+  removeStaleTemporaries(outPath);
+
+  let store = fs.existsSync(partialDir) ? SegmentStore.open(partialDir) : null;
+  if (store !== null && !resume) {
+    throw new InputError(`--output: a partial run of ${outPath} exists (${partialDir}); use --resume to finish it or --force to start over`);
+  }
+  if (store !== null) {
+    const m = store.manifest;
+    if (m.sweepHash !== hash || m.rowStart !== rowStart || m.rowEnd !== rowEnd) {
+      throw new InputError(
+        `--resume: the partial run in ${partialDir} belongs to another sweep or shard (hash ${m.sweepHash.slice(0, 12)}, rows ${m.rowStart}-${m.rowEnd}); this sweep is ${hash.slice(0, 12)}, rows ${rowStart}-${rowEnd}`,
+      );
+    }
+  } else if (fs.existsSync(partialDir)) {
+    // a folder without a readable manifest: a crash while creating it
+    fs.rmSync(partialDir, { recursive: true, force: true });
+  }
+  if (resume && fs.existsSync(outPath)) {
+    if (await existingOutputMatches(outPath, manifest)) {
+      store?.remove();
+      return finishedSummary(outPath, manifest, workers, t0, hash);
+    }
+    if (!force) throw new InputError(`--resume: ${outPath} exists but is not a finished run of this sweep; use --force to replace it`);
+  }
+  store ??= SegmentStore.create(partialDir, manifest);
+  const chunkSize = store.manifest.chunkSize;
+
+  const meta: ResultsTableMeta = {
+    sweepJson: JSON.stringify(spec),
+    sweepHash: hash,
+    toolVersion: TOOL_VERSION,
+    params,
+    pointCount: plan.count,
+    rowStart,
+    rowEnd,
+    shard: opts.shard ? `${opts.shard.k}/${opts.shard.n}` : '1/1',
+    blockLabels: plan.hasBlocks ? ['A', 'B', ...plan.axisNames.map((n) => `AB_${n}`)] : null,
+  };
+  const schema = resultsSchema(meta);
+  const dictionary = makeStatusDictionary();
+
+  const resumeFrom = store.committedEnd();
+  const chunks: Array<[number, number]> = [];
+  for (let s = resumeFrom; s < rowEnd; s += chunkSize) chunks.push([s, Math.min(s + chunkSize, rowEnd)]);
+
+  const ctx = makeChunkContext(spec);
+  const specKey = hash;
+  let retriedChunks = 0;
+  let lostChunks = 0;
+  let interrupted = false;
+
+  const pool =
+    chunks.length === 0
+      ? null
+      : new Piscina<ChunkTask, ChunkResult>({
+          filename: pathToFileURL(opts.workerFile ?? sweepWorkerFile()).href,
+          minThreads: Math.min(workers, chunks.length),
+          maxThreads: workers,
+          idleTimeout: 2000,
+        });
+
+  const runChunk = async (idx: number): Promise<ChunkResult> => {
+    const [s, e] = chunks[idx];
+    const task: ChunkTask = { specKey, spec, start: s, end: e };
+    try {
+      return await pool!.run(task);
+    } catch (first) {
+      retriedChunks++;
+      try {
+        return await pool!.run(task);
+      } catch (second) {
+        lostChunks++;
+        const why = second instanceof Error ? second.message : String(second);
+        return failedChunk(ctx, s, e, `worker failed twice on rows ${s}-${e}: ${why}`);
+      }
+    }
+  };
+
+  const window = workers * 2 + 1;
+  const finished = new Map<number, ChunkResult>();
+  const inFlight = new Map<number, Promise<void>>();
+  let nextSubmit = 0;
+  let nextWrite = 0;
+  let segBatches: arrow.RecordBatch[] = [];
+  let segStart = resumeFrom;
+  let segEnd = resumeFrom;
+  let segRows = 0;
+  let lastCommit = performance.now();
+  const segmentRows = opts.segmentRows ?? 262_144;
+  const segmentMs = (opts.segmentSeconds ?? 3) * 1000;
+
+  const commitSegment = (): void => {
+    if (segBatches.length === 0) return;
+    try {
+      store!.commit(segStart, segEnd, segBatches);
+    } catch (err) {
+      const why = err instanceof Error ? err.message : String(err);
+      throw new RunError(
+        `cannot write results to ${partialDir}: ${why}. Rows ${rowStart}-${segStart} are kept; fix the problem and rerun the same command with --resume.`,
+      );
+    }
+    segBatches = [];
+    segStart = segEnd;
+    segRows = 0;
+    lastCommit = performance.now();
+  };
+
+  const onAbort = (): void => {
+    interrupted = true;
+  };
+  opts.signal?.addEventListener('abort', onAbort);
+  if (opts.signal?.aborted) interrupted = true;
+  try {
+    while (nextWrite < chunks.length) {
+      while (!interrupted && nextSubmit < chunks.length && nextSubmit - nextWrite < window) {
+        const idx = nextSubmit++;
+        inFlight.set(
+          idx,
+          runChunk(idx).then((r) => {
+            finished.set(idx, r);
+            inFlight.delete(idx);
+          }),
+        );
+      }
+      const ready = finished.get(nextWrite);
+      if (ready !== undefined) {
+        finished.delete(nextWrite);
+        nextWrite++;
+        segBatches.push(chunkToRecordBatch(ready, schema, dictionary));
+        segEnd = ready.end;
+        segRows += ready.end - ready.start;
+        if (segRows >= segmentRows || performance.now() - lastCommit >= segmentMs) commitSegment();
+        opts.progress?.update(segEnd - rowStart);
+        continue;
+      }
+      if (inFlight.size === 0) break; // interrupted: nothing more will arrive
+      await Promise.race(inFlight.values());
+    }
+    commitSegment();
+  } finally {
+    opts.signal?.removeEventListener('abort', onAbort);
+    // wait for running tasks so no worker writes after we return
+    await Promise.allSettled(inFlight.values());
+    await pool?.destroy();
+  }
+
+  const computedRows = segEnd - resumeFrom;
+  if (interrupted && segEnd < rowEnd) {
+    opts.progress?.finish(segEnd - rowStart);
+    return {
+      outPath, rowStart, rowEnd, rows: segEnd - rowStart, computedRows, counts: emptyCounts(),
+      seconds: (performance.now() - t0) / 1000, workers, chunkSize, retriedChunks, lostChunks, interrupted: true, sweepHash: hash,
+    };
+  }
+  opts.progress?.finish(rowEnd - rowStart);
+
+  const counts = await publishFromSegments(store, outPath, schema, dictionary);
+  store.remove();
+  return {
+    outPath, rowStart, rowEnd, rows: rowEnd - rowStart, computedRows, counts,
+    seconds: (performance.now() - t0) / 1000, workers, chunkSize, retriedChunks, lostChunks, interrupted: false, sweepHash: hash,
+  };
+}
+
+/** Concatenate the committed segments into the final IPC file and count rows by status. */
+async function publishFromSegments(
+  store: SegmentStore,
+  outPath: string,
+  schema: arrow.Schema,
+  dictionary: arrow.Vector<arrow.Utf8>,
+): Promise<Record<ColumnStatus, number>> {
+  const counts = emptyCounts();
+  const sink = new IpcFileSink(outPath, `${outPath}.tmp-${process.pid}`, schema);
+  try {
+    for (const seg of store.segments()) {
+      for await (const batch of readIpcBatches(seg.file)) {
+        const rebuilt = withSharedDictionary(batch, schema, dictionary);
+        countStatuses(rebuilt, counts);
+        await sink.write(rebuilt);
+      }
+    }
+    await sink.publish();
+  } catch (err) {
+    await sink.abort();
+    const why = err instanceof Error ? err.message : String(err);
+    throw new RunError(`cannot publish ${outPath}: ${why}. The computed rows are kept in ${store.dir}; rerun with --resume.`);
+  }
+  return counts;
+}
+
+/** Add a batch's rows to counts by status. */
+export function countStatuses(batch: arrow.RecordBatch, counts: Record<ColumnStatus, number>): void {
+  const col = batch.getChild('status');
+  if (col === null) return;
+  for (const data of col.data) {
+    const dict = data.dictionary as arrow.Vector<arrow.Utf8>;
+    const names = Array.from({ length: dict.length }, (_, i) => dict.get(i) as ColumnStatus);
+    const codes = data.values as Int8Array;
+    for (let i = 0; i < data.length; i++) counts[names[codes[data.offset + i]]]++;
+  }
+}
+
+async function finishedSummary(outPath: string, manifest: PartialManifest, workers: number, t0: number, hash: string): Promise<RunSummary> {
+  const counts = emptyCounts();
+  let rows = 0;
+  for await (const batch of readIpcBatches(outPath)) {
+    countStatuses(batch, counts);
+    rows += batch.numRows;
+  }
+  return {
+    outPath, rowStart: manifest.rowStart, rowEnd: manifest.rowEnd, rows, computedRows: 0, counts,
+    seconds: (performance.now() - t0) / 1000, workers, chunkSize: manifest.chunkSize, retriedChunks: 0, lostChunks: 0,
+    interrupted: false, sweepHash: hash,
+  };
+}

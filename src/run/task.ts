@@ -1,0 +1,10 @@
+/** The message that crosses the worker boundary: a sweep and a contiguous index range. */
+import type { SweepSpec } from '../spec/types.js';
+
+export interface ChunkTask {
+  /** identifies the spec so a worker builds its plan and parameters once */
+  readonly specKey: string;
+  readonly spec: SweepSpec;
+  readonly start: number;
+  readonly end: number;
+}

@@ -1,0 +1,25 @@
+/**
+ * Size limits of a sweep. Points are addressed by plain numbers (exact up to 2^53), so the
+ * limits are about what a sweep can sensibly mean, not about memory: nothing proportional to
+ * the point count is ever materialised.
+ */
+
+/** Largest number of points a plan may have (2^40, about 1.1e12). */
+export const MAX_POINTS = 2 ** 40;
+
+/** Largest number of values one grid axis may have (they are stored in the spec). */
+export const MAX_AXIS_VALUES = 100_000;
+
+/** Largest seed (2^53 - 1): seeds are whole numbers 0..MAX_SEED. */
+export const MAX_SEED = Number.MAX_SAFE_INTEGER;
+
+/**
+ * Sobol points are computed with 32-bit direction numbers, so indices (skip + samples) stay
+ * below 2^32; past that the sequence would repeat.
+ */
+export const MAX_SOBOL_INDEX = 2 ** 32;
+
+/** Allowed isentropic pressure step, GPa, and its default. */
+export const STEP_GPA_MIN = 0.001;
+export const STEP_GPA_MAX = 0.5;
+export const STEP_GPA_DEFAULT = 0.05;

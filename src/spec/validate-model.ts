@@ -1,0 +1,71 @@
+/**
+ * Validation of the `model` section. Parameter overrides are checked by the physics' own
+ * `resolveParams` (ranges and relations live there, once); this file only adds the path
+ * prefix and "did you mean" for unknown parameter names.
+ */
+import { PARAM_NAMES, ParamError, resolveParams, type ParamName, type ParamOverrides } from '../physics/params.js';
+import { STEP_GPA_DEFAULT, STEP_GPA_MAX, STEP_GPA_MIN } from './limits.js';
+import { checkKeys, describeFound, isMapping, readChoice, readNumber, unknownKeyText, type ProblemList } from './problems.js';
+import type { ModelSpec } from './types.js';
+
+export const MODEL_KEYS = ['thermal', 'water', 'params', 'step_gpa'] as const;
+export const THERMAL_MODES: readonly ModelSpec['thermal'][] = ['isentropic', 'conductive', 'auto'];
+export const WATER_MODES: readonly ModelSpec['water'][] = ['batch', 'fractional'];
+
+/** Validate `model`; absent means thermal auto, water batch, no overrides, step 0.05 GPa. */
+export function validateModel(raw: unknown, problems: ProblemList): ModelSpec | undefined {
+  if (raw !== undefined && raw !== null && !isMapping(raw)) {
+    problems.add('model', `${describeFound(raw)} is not a mapping; write { thermal: ..., water: ..., params: { ... } }`);
+    return undefined;
+  }
+  const body: Record<string, unknown> = isMapping(raw) ? raw : {};
+  const before = problems.count;
+  checkKeys(body, MODEL_KEYS, 'model', problems);
+  const thermal = body.thermal === undefined ? 'auto' : readChoice(body.thermal, THERMAL_MODES, 'model.thermal', problems, 'a thermal model');
+  const water = body.water === undefined ? 'batch' : readChoice(body.water, WATER_MODES, 'model.water', problems, 'a water mode');
+  const step = body.step_gpa === undefined ? STEP_GPA_DEFAULT : readStep(body.step_gpa, problems);
+  const params = body.params === undefined || body.params === null ? {} : validateParams(body.params, problems);
+  if (problems.count !== before || thermal === undefined || water === undefined || step === undefined || params === undefined) {
+    return undefined;
+  }
+  return { thermal, water, params, step_gpa: step };
+}
+
+function readStep(raw: unknown, problems: ProblemList): number | undefined {
+  const v = readNumber(raw, 'model.step_gpa', problems);
+  if (v === undefined) return undefined;
+  if (v < STEP_GPA_MIN || v > STEP_GPA_MAX) {
+    problems.add('model.step_gpa', `${v} is ${v < STEP_GPA_MIN ? 'below' : 'above'} the allowed range ${STEP_GPA_MIN}-${STEP_GPA_MAX} GPa`);
+    return undefined;
+  }
+  return v;
+}
+
+function validateParams(raw: unknown, problems: ProblemList): ParamOverrides | undefined {
+  if (!isMapping(raw)) {
+    problems.add('model.params', `${describeFound(raw)} is not a mapping of parameter names to values, e.g. { M_cpx: 0.15 }`);
+    return undefined;
+  }
+  const known: Record<string, unknown> = {};
+  let ok = true;
+  for (const [key, value] of Object.entries(raw)) {
+    if ((PARAM_NAMES as readonly string[]).includes(key)) {
+      known[key] = value;
+    } else {
+      problems.add(`model.params.${key}`, unknownKeyText(key, PARAM_NAMES, 'parameter'));
+      ok = false;
+    }
+  }
+  try {
+    // resolveParams checks types, ranges and the relations between parameters
+    resolveParams(known as ParamOverrides);
+  } catch (err) {
+    if (!(err instanceof ParamError)) throw err;
+    for (const p of err.problems) problems.addRaw(p.startsWith('params') ? `model.${p}` : `model.params: ${p}`);
+    return undefined;
+  }
+  if (!ok) return undefined;
+  const out: Partial<Record<ParamName, number>> = {};
+  for (const name of PARAM_NAMES) if (typeof known[name] === 'number') out[name] = known[name];
+  return out;
+}

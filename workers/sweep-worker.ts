@@ -1,0 +1,26 @@
+/**
+ * The worker thread: a thin adapter. Receive (spec, index range), call the pure physics
+ * through computeChunk, move the typed arrays back to the main thread (no copies, no
+ * per-point messages).
+ */
+import { transferableSymbol, valueSymbol } from 'piscina';
+import { computeChunk, chunkTransferables, makeChunkContext, type ChunkContext, type ChunkResult } from '../src/run/compute-chunk.js';
+import type { ChunkTask } from '../src/run/task.js';
+
+// One context per sweep seen by this thread (a pool serves one sweep at a time).
+const contexts = new Map<string, ChunkContext>();
+
+function contextFor(task: ChunkTask): ChunkContext {
+  let ctx = contexts.get(task.specKey);
+  if (ctx === undefined) {
+    contexts.clear();
+    ctx = makeChunkContext(task.spec);
+    contexts.set(task.specKey, ctx);
+  }
+  return ctx;
+}
+
+export default function runChunk(task: ChunkTask): { [transferableSymbol]: ArrayBuffer[]; [valueSymbol]: ChunkResult } {
+  const result = computeChunk(contextFor(task), task.start, task.end);
+  return { [transferableSymbol]: chunkTransferables(result), [valueSymbol]: result };
+}
