@@ -3,7 +3,7 @@
  * through computeChunk, move the typed arrays back to the main thread (no copies, no
  * per-point messages).
  */
-import { transferableSymbol, valueSymbol } from 'piscina';
+import { move, transferableSymbol, valueSymbol } from 'piscina';
 import { computeChunk, chunkTransferables, makeChunkContext, type ChunkContext, type ChunkResult } from '../src/run/compute-chunk.js';
 import type { ChunkTask } from '../src/run/task.js';
 
@@ -20,7 +20,9 @@ function contextFor(task: ChunkTask): ChunkContext {
   return ctx;
 }
 
-export default function runChunk(task: ChunkTask): { [transferableSymbol]: ArrayBuffer[]; [valueSymbol]: ChunkResult } {
+/** Compute a chunk and hand its buffers back as transferables (piscina unwraps the value). */
+export default function runChunk(task: ChunkTask): ChunkResult {
   const result = computeChunk(contextFor(task), task.start, task.end);
-  return { [transferableSymbol]: chunkTransferables(result), [valueSymbol]: result };
+  const movable = { [transferableSymbol]: chunkTransferables(result), [valueSymbol]: result };
+  return move(movable) as unknown as ChunkResult;
 }

@@ -103,9 +103,10 @@ export function withSharedDictionary(
     const source = data.dictionary as arrow.Vector<arrow.Utf8>;
     const wanted = Array.from({ length: statusDictionary.length }, (_, i) => statusDictionary.get(i) as string);
     const remap = Int8Array.from({ length: source.length }, (_, i) => wanted.indexOf(source.get(i) as string));
-    const codes = data.values as Int8Array;
-    const out = new Int8Array(codes.length);
-    for (let i = 0; i < codes.length; i++) out[i] = remap[codes[i]];
+    // IPC buffers are padded: take exactly this column's slice
+    const codes = (data.values as Int8Array).subarray(data.offset, data.offset + data.length);
+    const out = new Int8Array(data.length);
+    for (let i = 0; i < data.length; i++) out[i] = remap[codes[i]];
     return statusData(out, statusDictionary);
   });
   return new arrow.RecordBatch(schema, arrow.makeData({ type: new arrow.Struct(schema.fields), length: batch.numRows, nullCount: 0, children }));

@@ -28,7 +28,9 @@ export type DesignLayout =
   | { readonly kind: 'saltelli'; readonly base: number; readonly inputs: readonly InputName[] }
   | { readonly kind: 'latin-hypercube' | 'sobol'; readonly samples: number; readonly inputs: readonly InputName[] };
 
+/** A planned sweep (from planSweep): frozen, safe to share; build one per worker from the spec. */
 export interface Plan {
+  /** number of points, 1 to 2^40 */
   readonly count: number;
   readonly design: DesignKind;
   /** the swept inputs, in spec order */
@@ -36,6 +38,11 @@ export interface Plan {
   readonly layout: DesignLayout;
   /** whether rows carry a saltelli block tag */
   readonly hasBlocks: boolean;
-  /** write points [start, end) into out (arrays of length >= end - start) */
+  /**
+   * Write points [start, end) into rows 0 .. end - start of out (arrays of length >= end - start;
+   * out.block required when hasBlocks). Swept columns get the design's values, the others their
+   * fixed value or default (NaN for upwelling_mm_yr when not given). The result never depends on
+   * how a range is split. Throws RangeError for a range outside [0, count] or a short batch.
+   */
   fill(start: number, end: number, out: PointBatch): void;
 }

@@ -19,7 +19,9 @@ export const MAX_SEED = Number.MAX_SAFE_INTEGER;
  */
 export const MAX_SOBOL_INDEX = 2 ** 32;
 
-/** Allowed isentropic pressure step, GPa, and its default. */
+/** Smallest allowed isentropic pressure step, GPa. */
 export const STEP_GPA_MIN = 0.001;
+/** Largest allowed isentropic pressure step, GPa. */
 export const STEP_GPA_MAX = 0.5;
+/** Default isentropic pressure step, GPa. */
 export const STEP_GPA_DEFAULT = 0.05;

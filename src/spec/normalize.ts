@@ -4,7 +4,7 @@
  */
 import { INPUT_NAMES, type InputName } from '../physics/fields.js';
 import { PARAM_NAMES, type ParamName } from '../physics/params.js';
-import { INPUT_DEFAULTS } from './input-ranges.js';
+import { INPUT_DEFAULTS } from './input-defaults.js';
 import type { AxisSpec, DesignSpec, ModelSpec, SweepSpec } from './types.js';
 
 /** Recursively freeze a plain-data value (objects and arrays) and return it. */

@@ -11,6 +11,7 @@ import { positionAt } from './text-position.js';
 import type { SweepSpec } from './types.js';
 import { validateSweep } from './validate.js';
 
+/** Syntax of a sweep file. */
 export type SweepFormat = 'json' | 'yaml';
 
 /** Largest alias expansion accepted in a YAML file (guards against alias bombs). */

@@ -19,6 +19,11 @@ export class ProblemList {
     this.items.push(message);
   }
 
+  /** Append the problems of another list (kept in its order). */
+  addAll(other: ProblemList): void {
+    this.items.push(...other.items);
+  }
+
   get count(): number {
     return this.items.length;
   }
@@ -53,6 +58,8 @@ export function isMapping(value: unknown): value is Record<string, unknown> {
 /**
  * Report every key of `obj` that is not in `allowed`, with the nearest allowed key suggested.
  * `what` names the kind of key in the message ("key", "input", "parameter").
+ * Returns the suggested names, so a caller can skip a "missing <key>" message that would only
+ * repeat the typo.
  */
 export function checkKeys(
   obj: Record<string, unknown>,
@@ -60,11 +67,15 @@ export function checkKeys(
   path: string,
   problems: ProblemList,
   what = 'key',
-): void {
+): string[] {
+  const suggested: string[] = [];
   for (const key of Object.keys(obj)) {
     if (allowed.includes(key)) continue;
     problems.add(joinPath(path, key), unknownKeyText(key, allowed, what));
+    const near = suggestName(key, allowed);
+    if (near !== null) suggested.push(near);
   }
+  return suggested;
 }
 
 /** "unknown key; did you mean design?" or "unknown key; allowed: a, b, c". */

@@ -8,6 +8,7 @@
 import type { InputName } from '../physics/fields.js';
 import type { ParamOverrides } from '../physics/params.js';
 
+/** Spacing of a swept input: linear, or log (geometric grid values, log-uniform sampling). */
 export type AxisScale = 'linear' | 'log';
 
 /**
@@ -46,8 +47,10 @@ export type DesignSpec =
   | { readonly kind: 'sobol'; readonly samples: number; readonly skip: number; readonly seed?: number }
   | { readonly kind: 'saltelli'; readonly base: number; readonly skip: number; readonly seed?: number };
 
+/** The name of a design: grid, latin-hypercube, sobol or saltelli. */
 export type DesignKind = DesignSpec['kind'];
 
+/** How each column is computed (the physics options of a sweep). */
 export interface ModelSpec {
   /** 'auto': conductive with an upwelling rate, isentropic without (default 'auto') */
   readonly thermal: 'isentropic' | 'conductive' | 'auto';
@@ -59,6 +62,7 @@ export interface ModelSpec {
   readonly step_gpa: number;
 }
 
+/** A validated, normalized sweep: everything needed to reproduce its points and columns. */
 export interface SweepSpec {
   readonly name: string;
   /** swept inputs in file order (in a grid the last varies fastest) */

@@ -3,7 +3,7 @@
  * or `count` (optional `scale: log`). Ranges are expanded to their values here, once.
  */
 import { INPUT_NAMES, type InputName } from '../physics/fields.js';
-import { checkInputValue } from './input-ranges.js';
+import { checkInputValue } from '../physics/ranges.js';
 import { MAX_AXIS_VALUES } from './limits.js';
 import {
   checkKeys,
@@ -12,7 +12,6 @@ import {
   readChoice,
   readNumber,
   readWholeNumber,
-  unknownKeyText,
   type ProblemList,
 } from './problems.js';
 import type { AxisScale, AxisSpec, DesignKind } from './types.js';
@@ -29,6 +28,8 @@ export interface AxesResult {
   readonly named: readonly InputName[];
   /** true when no problem was found in the section */
   readonly ok: boolean;
+  /** inputs suggested for unknown names ("tp" -> tp_c): not reported again as missing */
+  readonly suggested: readonly string[];
 }
 
 /**
@@ -37,24 +38,22 @@ export interface AxesResult {
  */
 export function validateAxes(raw: unknown, design: DesignKind | undefined, problems: ProblemList): AxesResult {
   const before = problems.count;
-  if (raw === undefined || raw === null) return { axes: [], named: [], ok: true };
+  if (raw === undefined || raw === null) return { axes: [], named: [], ok: true, suggested: [] };
   if (!isMapping(raw)) {
     problems.add('axes', `${describeFound(raw)} is not a mapping of inputs to axes; allowed inputs: ${INPUT_NAMES.join(', ')}`);
-    return { axes: [], named: [], ok: false };
+    return { axes: [], named: [], ok: false, suggested: [] };
   }
+  const suggested = checkKeys(raw, INPUT_NAMES, 'axes', problems, 'input');
   const axes: AxisSpec[] = [];
   const named: InputName[] = [];
   for (const [key, body] of Object.entries(raw)) {
-    if (!(INPUT_NAMES as readonly string[]).includes(key)) {
-      problems.add(`axes.${key}`, unknownKeyText(key, INPUT_NAMES, 'input'));
-      continue;
-    }
+    if (!(INPUT_NAMES as readonly string[]).includes(key)) continue;
     const name = key as InputName;
     named.push(name);
     const axis = validateAxis(name, body, design, problems);
     if (axis !== undefined) axes.push(axis);
   }
-  return { axes, named, ok: problems.count === before };
+  return { axes, named, ok: problems.count === before, suggested };
 }
 
 function validateAxis(name: InputName, body: unknown, design: DesignKind | undefined, problems: ProblemList): AxisSpec | undefined {
@@ -68,7 +67,8 @@ function validateAxis(name: InputName, body: unknown, design: DesignKind | undef
     return undefined;
   }
   const before = problems.count;
-  checkKeys(body, AXIS_KEYS, path, problems);
+  // after an unknown key (often a misspelt one) further messages about the axis would only repeat it
+  if (checkKeys(body, AXIS_KEYS, path, problems).length > 0 || problems.count > before) return undefined;
   let scale: AxisScale = 'linear';
   if (body.scale !== undefined) scale = readChoice(body.scale, AXIS_SCALES, `${path}.scale`, problems, 'a scale') ?? 'linear';
 

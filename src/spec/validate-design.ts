@@ -4,6 +4,7 @@
  */
 import { MAX_POINTS, MAX_SEED, MAX_SOBOL_INDEX } from './limits.js';
 import { describeFound, isMapping, readChoice, readWholeNumber, unknownKeyText, type ProblemList } from './problems.js';
+import { suggestName } from './suggest.js';
 import type { DesignKind, DesignSpec } from './types.js';
 
 /** The design kinds, in the order they are listed in messages. */
@@ -20,12 +21,14 @@ export const DESIGN_KEYS: Readonly<Record<DesignKind, readonly string[]>> = {
 const ALL_DESIGN_KEYS = ['kind', 'samples', 'base', 'skip', 'seed'];
 
 /** Why a key known to other designs is not used by this one. */
-const KEY_HINTS: Readonly<Record<string, string>> = {
-  samples: 'a grid takes its size from its axes',
-  base: 'base is the N of a saltelli design',
-  skip: 'skip applies to the Sobol sequence of sobol and saltelli designs',
-  seed: 'a grid has no randomness',
-};
+function keyHint(key: string, kind: DesignKind): string {
+  if (key === 'samples' && kind === 'grid') return ' (a grid takes its size from its axes)';
+  if (key === 'samples' && kind === 'saltelli') return ' (it takes base N and makes N (k + 2) points)';
+  if (key === 'base') return ' (base is the N of a saltelli design)';
+  if (key === 'skip') return ' (skip applies to the Sobol sequence of sobol and saltelli designs)';
+  if (key === 'seed' && kind === 'grid') return ' (a grid has no randomness)';
+  return '';
+}
 
 /** Result of validating `design`; `kind` is known whenever the kind itself was valid. */
 export interface DesignResult {
@@ -54,21 +57,33 @@ export function validateDesign(raw: unknown, problems: ProblemList): DesignResul
   }
   const before = problems.count;
   const allowed = DESIGN_KEYS[kind];
+  const suggested: string[] = [];
   for (const key of Object.keys(body)) {
     if (allowed.includes(key)) continue;
     if (ALL_DESIGN_KEYS.includes(key)) {
-      const hint = KEY_HINTS[key];
-      problems.add(`design.${key}`, `not used by a ${kind} design${hint === undefined ? '' : ` (${hint})`}; allowed keys: ${allowed.join(', ')}`);
+      problems.add(`design.${key}`, `not used by a ${kind} design${keyHint(key, kind)}; allowed keys: ${allowed.join(', ')}`);
     } else {
       problems.add(`design.${key}`, unknownKeyText(key, allowed));
+      const near = suggestName(key, allowed);
+      if (near !== null) suggested.push(near);
     }
   }
-  const design = buildDesign(kind, body, problems);
+  const design = buildDesign(kind, body, suggested, problems);
   return { design: problems.count === before ? design : undefined, kind };
 }
 
-function required(body: Record<string, unknown>, key: string, kind: DesignKind, min: number, max: number, problems: ProblemList): number | undefined {
+function required(
+  body: Record<string, unknown>,
+  key: string,
+  kind: DesignKind,
+  min: number,
+  max: number,
+  suggested: readonly string[],
+  problems: ProblemList,
+): number | undefined {
   if (body[key] === undefined) {
+    // a misspelt key was already reported with this name suggested
+    if (suggested.includes(key)) return undefined;
     problems.add(`design.${key}`, `missing; a ${kind} design needs ${key} (a whole number from ${min} to ${max})`);
     return undefined;
   }
@@ -80,17 +95,17 @@ function optional(body: Record<string, unknown>, key: string, fallback: number |
   return readWholeNumber(body[key], `design.${key}`, problems, key, min, max);
 }
 
-function buildDesign(kind: DesignKind, body: Record<string, unknown>, problems: ProblemList): DesignSpec | undefined {
+function buildDesign(kind: DesignKind, body: Record<string, unknown>, suggested: readonly string[], problems: ProblemList): DesignSpec | undefined {
   switch (kind) {
     case 'grid':
       return { kind };
     case 'latin-hypercube': {
-      const samples = required(body, 'samples', kind, 1, MAX_POINTS, problems);
+      const samples = required(body, 'samples', kind, 1, MAX_POINTS, suggested, problems);
       const seed = optional(body, 'seed', 0, 0, MAX_SEED, problems);
       return samples === undefined || seed === undefined ? undefined : { kind, samples, seed };
     }
     case 'sobol': {
-      const samples = required(body, 'samples', kind, 1, MAX_SOBOL_INDEX, problems);
+      const samples = required(body, 'samples', kind, 1, MAX_SOBOL_INDEX, suggested, problems);
       const skip = optional(body, 'skip', 0, 0, MAX_SOBOL_INDEX - 1, problems);
       const seed = optional(body, 'seed', undefined, 0, MAX_SEED, problems);
       if (samples === undefined || skip === undefined) return undefined;
@@ -98,7 +113,7 @@ function buildDesign(kind: DesignKind, body: Record<string, unknown>, problems: 
       return seed === undefined ? { kind, samples, skip } : { kind, samples, skip, seed };
     }
     case 'saltelli': {
-      const base = required(body, 'base', kind, 1, MAX_SOBOL_INDEX, problems);
+      const base = required(body, 'base', kind, 1, MAX_SOBOL_INDEX, suggested, problems);
       const skip = optional(body, 'skip', 0, 0, MAX_SOBOL_INDEX - 1, problems);
       const seed = optional(body, 'seed', undefined, 0, MAX_SEED, problems);
       if (base === undefined || skip === undefined) return undefined;

@@ -8,8 +8,11 @@ import { STEP_GPA_DEFAULT, STEP_GPA_MAX, STEP_GPA_MIN } from './limits.js';
 import { checkKeys, describeFound, isMapping, readChoice, readNumber, unknownKeyText, type ProblemList } from './problems.js';
 import type { ModelSpec } from './types.js';
 
+/** Keys of the `model` section. */
 export const MODEL_KEYS = ['thermal', 'water', 'params', 'step_gpa'] as const;
+/** Allowed `model.thermal` values. */
 export const THERMAL_MODES: readonly ModelSpec['thermal'][] = ['isentropic', 'conductive', 'auto'];
+/** Allowed `model.water` values. */
 export const WATER_MODES: readonly ModelSpec['water'][] = ['batch', 'fractional'];
 
 /** Validate `model`; absent means thermal auto, water batch, no overrides, step 0.05 GPa. */

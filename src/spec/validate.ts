@@ -6,10 +6,10 @@
 import { InputError } from '../errors.js';
 import { INPUT_NAMES, type InputName } from '../physics/fields.js';
 import { countPoints } from './count.js';
-import { checkInputValue, formatInputRange, INPUT_RANGES } from './input-ranges.js';
+import { checkInputValue, formatInputRange, INPUT_RANGES } from '../physics/ranges.js';
 import { MAX_POINTS } from './limits.js';
 import { normalizeSweep } from './normalize.js';
-import { checkKeys, describeFound, isMapping, ProblemList, readNumber, unknownKeyText } from './problems.js';
+import { checkKeys, describeFound, isMapping, ProblemList, readNumber } from './problems.js';
 import type { AxisSpec, DesignSpec, ModelSpec, SweepSpec } from './types.js';
 import { validateAxes } from './validate-axes.js';
 import { validateDesign } from './validate-design.js';
@@ -21,6 +21,7 @@ export const SWEEP_KEYS = ['name', 'axes', 'fixed', 'design', 'model'] as const;
 /** Longest sweep name, characters. */
 export const MAX_NAME_LENGTH = 200;
 
+/** Options of validateSweep. */
 export interface ValidateOptions {
   /** name used when the file has none (parseSweepText passes the file's base name); default "sweep" */
   readonly defaultName?: string;
@@ -39,19 +40,26 @@ export function validateSweep(raw: unknown, options: ValidateOptions = {}): Swee
   if (!isMapping(raw)) {
     throw new InputError(`(top level): ${describeFound(raw)} is not a sweep; expected a mapping with keys ${SWEEP_KEYS.join(', ')}`);
   }
-  checkKeys(raw, SWEEP_KEYS, '', problems);
+  const suggestedTop = checkKeys(raw, SWEEP_KEYS, '', problems);
 
   const name = validateName(raw.name, options.defaultName ?? 'sweep', problems);
-  const { design, kind } = validateDesign(raw.design, problems);
+  // the design is read first (axes depend on its kind) but reported in file order, after fixed
+  const designProblems = new ProblemList();
+  const { design, kind } = validateDesign(raw.design, designProblems);
   const axesResult = validateAxes(raw.axes, kind, problems);
-  const fixed = validateFixed(raw.fixed, axesResult.named, problems);
+  const fixedResult = validateFixed(raw.fixed, axesResult.named, problems);
+  const fixed = fixedResult.fixed;
   const tpGiven = axesResult.named.includes('tp_c') || (isMapping(raw.fixed) && raw.fixed.tp_c !== undefined);
-  if (!tpGiven) {
+  // a misspelt key already reported with tp_c, axes or fixed suggested would only be repeated
+  const tpSuggested =
+    axesResult.suggested.includes('tp_c') || fixedResult.suggested.includes('tp_c') || suggestedTop.includes('axes') || suggestedTop.includes('fixed');
+  if (!tpGiven && !tpSuggested) {
     problems.add(
       'axes.tp_c',
       `missing; tp_c (${INPUT_RANGES.tp_c.description}, ${formatInputRange('tp_c')}) must be swept under axes or set under fixed`,
     );
   }
+  problems.addAll(designProblems);
   const model = validateModel(raw.model, problems);
 
   if (design !== undefined && axesResult.ok) checkDesignFit(axesResult.axes, design, problems);
@@ -80,24 +88,23 @@ function validateName(raw: unknown, fallback: string, problems: ProblemList): st
   return raw;
 }
 
-function validateFixed(
-  raw: unknown,
-  swept: readonly InputName[],
-  problems: ProblemList,
-): Partial<Record<InputName, number>> | undefined {
-  if (raw === undefined || raw === null) return {};
+interface FixedResult {
+  readonly fixed: Partial<Record<InputName, number>> | undefined;
+  readonly suggested: readonly string[];
+}
+
+function validateFixed(raw: unknown, swept: readonly InputName[], problems: ProblemList): FixedResult {
+  if (raw === undefined || raw === null) return { fixed: {}, suggested: [] };
   if (!isMapping(raw)) {
     problems.add('fixed', `${describeFound(raw)} is not a mapping of inputs to values, e.g. { lid_km: 6 }`);
-    return undefined;
+    return { fixed: undefined, suggested: [] };
   }
   const before = problems.count;
+  const suggested = checkKeys(raw, INPUT_NAMES, 'fixed', problems, 'input');
   const fixed: Partial<Record<InputName, number>> = {};
   for (const [key, value] of Object.entries(raw)) {
     const path = `fixed.${key}`;
-    if (!(INPUT_NAMES as readonly string[]).includes(key)) {
-      problems.add(path, unknownKeyText(key, INPUT_NAMES, 'input'));
-      continue;
-    }
+    if (!(INPUT_NAMES as readonly string[]).includes(key)) continue;
     const name = key as InputName;
     const v = readNumber(value, path, problems);
     if (v === undefined) continue;
@@ -112,7 +119,7 @@ function validateFixed(
     }
     fixed[name] = v;
   }
-  return problems.count === before ? fixed : undefined;
+  return { fixed: problems.count === before ? fixed : undefined, suggested };
 }
 
 /** Checks that need both the axes and the design: sizes and sampled ranges. */

@@ -1,0 +1,20 @@
+import { InputError } from '../../src/errors.js';
+
+/** The problems of the InputError thrown by fn (fails the test when nothing is thrown). */
+export function problemsOf(fn: () => unknown): readonly string[] {
+  try {
+    fn();
+  } catch (err) {
+    if (err instanceof InputError) return err.problems;
+    throw err;
+  }
+  throw new Error('expected an InputError, but the call succeeded');
+}
+
+/** A valid grid sweep file to derive bad files from by small edits. */
+export const BASE_YAML = `name: t
+axes:
+  tp_c: { from: 1280, to: 1420, step: 20 }
+  water_ppm: { values: [0, 50, 100, 200] }
+design: { kind: grid }
+`;

@@ -1,0 +1,84 @@
+import { readFile } from 'node:fs/promises';
+import { describe, expect, it } from 'vitest';
+import { INPUT_DEFAULTS, loadSweepFile, normalizeSweep, parseSweepText, sweepHash, canonicalJson, validateSweep } from '../../src/spec/index.js';
+import type { SweepSpec } from '../../src/spec/index.js';
+
+function isDeepFrozen(value: unknown): boolean {
+  if (typeof value !== 'object' || value === null) return true;
+  return Object.isFrozen(value) && Object.values(value).every(isDeepFrozen);
+}
+
+describe('normalized spec', () => {
+  it('the demo sweep parses with its meaning unchanged', async () => {
+    const spec = await loadSweepFile('sweeps/demo-ridge-r7.yaml');
+    expect(spec.name).toBe('ridge-segment-R7');
+    expect(spec.axes.map((a) => [a.name, a.values])).toEqual([
+      ['tp_c', [1280, 1300, 1320, 1340, 1360, 1380, 1400, 1420, 1440]],
+      ['water_ppm', [0, 50, 100, 200, 400]],
+      ['lid_km', [0, 10, 20, 30]],
+    ]);
+    expect(spec.fixed).toEqual({ upwelling_mm_yr: 30 });
+    expect(spec.design).toEqual({ kind: 'grid' });
+    expect(spec.model).toEqual({ thermal: 'isentropic', water: 'batch', params: {}, step_gpa: 0.05 });
+  });
+
+  it('the example sweeps parse', async () => {
+    const lhs = await loadSweepFile('sweeps/backarc-basin-b-lhs.yaml');
+    expect(lhs.design).toEqual({ kind: 'latin-hypercube', samples: 2000, seed: 20240611 });
+    expect(lhs.axes.map((a) => a.name)).toEqual(['tp_c', 'water_ppm', 'lid_km', 'upwelling_mm_yr']);
+    const sal = await loadSweepFile('sweeps/plume-p3-saltelli.yaml');
+    expect(sal.design).toEqual({ kind: 'saltelli', base: 256, skip: 0 });
+    expect(sal.fixed).toEqual({ lid_km: 60 });
+    expect(sal.model.params).toEqual({ M_cpx: 0.15 });
+  });
+
+  it('is deep-frozen and survives a JSON round trip unchanged', async () => {
+    const spec = await loadSweepFile('sweeps/plume-p3-saltelli.yaml');
+    expect(isDeepFrozen(spec)).toBe(true);
+    const back = JSON.parse(JSON.stringify(spec)) as SweepSpec;
+    expect(back).toEqual(spec);
+    expect(normalizeSweep(back)).toEqual(spec);
+  });
+
+  it('writes the defaults of inputs neither swept nor fixed (upwelling absent)', () => {
+    const spec = validateSweep({ axes: { tp_c: { values: [1300, 1350] } } });
+    expect(spec.fixed).toEqual({ water_ppm: INPUT_DEFAULTS.water_ppm, lid_km: INPUT_DEFAULTS.lid_km });
+    expect(spec.design).toEqual({ kind: 'grid' });
+    expect(spec.model).toEqual({ thermal: 'auto', water: 'batch', params: {}, step_gpa: 0.05 });
+    expect(spec.name).toBe('sweep');
+  });
+
+  it('takes the file name when the sweep has no name', () => {
+    expect(parseSweepText('axes: { tp_c: { values: [1300] } }', 'dir/my-run.yaml').name).toBe('my-run');
+  });
+
+  it('design short form and defaults', () => {
+    const spec = validateSweep({ axes: { tp_c: { from: 1300, to: 1400 } }, design: { kind: 'sobol', samples: 64 } });
+    expect(spec.design).toEqual({ kind: 'sobol', samples: 64, skip: 0 });
+    const lhs = validateSweep({ axes: { tp_c: { from: 1300, to: 1400 } }, design: { kind: 'latin-hypercube', samples: 8 } });
+    expect(lhs.design).toEqual({ kind: 'latin-hypercube', samples: 8, seed: 0 });
+    expect(validateSweep({ axes: { tp_c: { values: [1300] } }, design: 'grid' }).design).toEqual({ kind: 'grid' });
+  });
+});
+
+describe('sweepHash', () => {
+  const a = 'name: h\naxes:\n  tp_c: { from: 1300, to: 1400, step: 50 }\nfixed: { lid_km: 0 }\ndesign: { kind: grid }\n';
+  it('is a sha256 hex digest', () => {
+    expect(sweepHash(parseSweepText(a, 'h.yaml'))).toMatch(/^[0-9a-f]{64}$/);
+  });
+  it('is the same for files that make the same points (key order, defaults, values written out)', () => {
+    const b = '{"design": {"kind": "grid"}, "axes": {"tp_c": {"values": [1300, 1350, 1400]}}, "name": "h"}';
+    expect(sweepHash(parseSweepText(b, 'h.json'))).toBe(sweepHash(parseSweepText(a, 'h.yaml')));
+  });
+  it('changes when the points change', () => {
+    const c = a.replace('step: 50', 'step: 25');
+    expect(sweepHash(parseSweepText(c, 'h.yaml'))).not.toBe(sweepHash(parseSweepText(a, 'h.yaml')));
+  });
+  it('canonical JSON sorts keys at every level', () => {
+    expect(canonicalJson({ b: 1, a: { d: [3, { f: 1, e: 2 }], c: 2 } })).toBe('{"a":{"c":2,"d":[3,{"e":2,"f":1}]},"b":1}');
+  });
+  it('is stable across versions for a fixed spec (update only on purpose)', async () => {
+    const text = await readFile('sweeps/demo-ridge-r7.yaml', 'utf8');
+    expect(sweepHash(parseSweepText(text, 'demo-ridge-r7.yaml'))).toBe('c2dc8f25c444939f38b362079de67865ac304771536a312c24d3157f6d601a92');
+  });
+});
