@@ -174,6 +174,11 @@ function prepareDesign(
     };
   }
   const sorted = inputs.map((name) => rowsSortedByInput(table.inputs[name], table.include, 0, n));
+  const included = table.include === undefined ? n : table.include.reduce((k, v) => k + (v !== 0 ? 1 : 0), 0);
+  inputs.forEach((name, i) => {
+    const missing = included - sorted[i].length;
+    if (missing > 0) c.note(`${name}: ${missing} included rows have no value (NaN) and are left out of its S1 and main-effect curve.`);
+  });
   c.note(`ST needs a saltelli design: total-effect indices are null for a ${layout.kind} design.`);
   return (out) => {
     const bins = settings.bins ?? defaultFirstOrderBins(out.used);

@@ -17,6 +17,38 @@ import { percentilesInPlace } from './stats.js';
 import type { EdgeRule } from './types.js';
 import type { GridGeometry } from './grid-variance.js';
 
+/**
+ * Derivative where the central stencil is not available: two points above, else two below
+ * (second order), else one usable neighbour (first order); NaN when none is usable.
+ */
+function edgeDerivative(
+  y: Float64Array,
+  usable: Uint8Array,
+  base: number,
+  j: number,
+  q: number,
+  y0: number,
+  offM1: Int32Array,
+  offM2: Int32Array,
+  offP1: Int32Array,
+  offP2: Int32Array,
+  wf: Float64Array,
+  wb: Float64Array,
+  xs: Float64Array,
+): number {
+  const pP1 = offP1[q] >= 0 ? base + offP1[q] + j : -1;
+  const pP2 = offP2[q] >= 0 ? base + offP2[q] + j : -1;
+  const pM1 = offM1[q] >= 0 ? base + offM1[q] + j : -1;
+  const pM2 = offM2[q] >= 0 ? base + offM2[q] + j : -1;
+  const okP1 = pP1 >= 0 && usable[pP1] !== 0;
+  const okM1 = pM1 >= 0 && usable[pM1] !== 0;
+  if (okP1 && pP2 >= 0 && usable[pP2] !== 0) return wf[3 * q] * y0 + wf[3 * q + 1] * y[pP1] + wf[3 * q + 2] * y[pP2];
+  if (okM1 && pM2 >= 0 && usable[pM2] !== 0) return wb[3 * q] * y0 + wb[3 * q + 1] * y[pM1] + wb[3 * q + 2] * y[pM2];
+  if (okP1) return (y[pP1] - y0) / (xs[q + 1] - xs[q]);
+  if (okM1) return (y0 - y[pM1]) / (xs[q] - xs[q - 1]);
+  return NaN;
+}
+
 export const LOCAL_PERCENTILES = [0.1, 0.5, 0.9] as const;
 
 export interface LocalDerivativeStats {
@@ -32,9 +64,11 @@ export interface LocalDerivativeStats {
   readonly noStencil: number;
 }
 
-/** Derivative weights at node x0 of the quadratic through (x0, x1, x2). */
-function weights3(x0: number, x1: number, x2: number): [number, number, number] {
-  return [1 / (x0 - x1) + 1 / (x0 - x2), (x0 - x2) / ((x1 - x0) * (x1 - x2)), (x0 - x1) / ((x2 - x0) * (x2 - x1))];
+/** Derivative weights at node x0 of the quadratic through (x0, x1, x2), written into w at 3q. */
+function weights3(w: Float64Array, q: number, x0: number, x1: number, x2: number): void {
+  w[3 * q] = 1 / (x0 - x1) + 1 / (x0 - x2);
+  w[3 * q + 1] = (x0 - x2) / ((x1 - x0) * (x1 - x2));
+  w[3 * q + 2] = (x0 - x1) / ((x2 - x0) * (x2 - x1));
 }
 
 /**
@@ -55,12 +89,24 @@ export function gridLocalDerivatives(
   const values = geom.values[axis];
   const block = size * stride;
   const outer = geom.n / block;
-  // positions along the axis in ascending value order
+  // positions along the axis in ascending value order, and per rank q: the row offsets (within a
+  // block) of the point and its neighbours in value order (-1 = none) and the stencil weights
   const order = Array.from({ length: size }, (_, t) => t).sort((a, b) => values[a] - values[b]);
-  const xs = order.map((t) => values[t]);
-  const central = xs.map((x, q) => (q >= 1 && q + 1 < size ? weights3(x, xs[q - 1], xs[q + 1]) : null));
-  const forward3 = xs.map((x, q) => (q + 2 < size ? weights3(x, xs[q + 1], xs[q + 2]) : null));
-  const backward3 = xs.map((x, q) => (q >= 2 ? weights3(x, xs[q - 1], xs[q - 2]) : null));
+  const xs = Float64Array.from(order, (t) => values[t]);
+  const rel = (q: number): number => (q >= 0 && q < size ? order[q] * stride : -1);
+  const off0 = Int32Array.from(order, (_, q) => rel(q));
+  const offM1 = Int32Array.from(order, (_, q) => rel(q - 1));
+  const offM2 = Int32Array.from(order, (_, q) => rel(q - 2));
+  const offP1 = Int32Array.from(order, (_, q) => rel(q + 1));
+  const offP2 = Int32Array.from(order, (_, q) => rel(q + 2));
+  const wc = new Float64Array(3 * size);
+  const wf = new Float64Array(3 * size);
+  const wb = new Float64Array(3 * size);
+  for (let q = 0; q < size; q++) {
+    if (q >= 1 && q + 1 < size) weights3(wc, q, xs[q], xs[q - 1], xs[q + 1]);
+    if (q + 2 < size) weights3(wf, q, xs[q], xs[q + 1], xs[q + 2]);
+    if (q >= 2) weights3(wb, q, xs[q], xs[q - 1], xs[q - 2]);
+  }
   const oneSided = edges === 'one-sided';
   let nSlope = 0;
   let nElast = 0;
@@ -70,43 +116,32 @@ export function gridLocalDerivatives(
     const base = o * block;
     for (let q = 0; q < size; q++) {
       const x = xs[q];
-      const off = base + order[q] * stride;
-      // row offsets of the neighbours in value order (-1 = none)
-      const offM1 = q >= 1 ? base + order[q - 1] * stride : -1;
-      const offM2 = q >= 2 ? base + order[q - 2] * stride : -1;
-      const offP1 = q + 1 < size ? base + order[q + 1] * stride : -1;
-      const offP2 = q + 2 < size ? base + order[q + 2] * stride : -1;
-      const wc = central[q];
-      const wf = forward3[q];
-      const wb = backward3[q];
-      const hP = offP1 >= 0 ? xs[q + 1] - x : 0;
-      const hM = offM1 >= 0 ? x - xs[q - 1] : 0;
+      const xPositive = x > 0;
+      const p0 = base + off0[q];
+      const hasM1 = offM1[q] >= 0;
+      const hasP1 = offP1[q] >= 0;
+      const hasCentral = hasM1 && hasP1;
+      const pM1 = base + offM1[q];
+      const pP1 = base + offP1[q];
+      const c0 = wc[3 * q];
+      const cM = wc[3 * q + 1];
+      const cP = wc[3 * q + 2];
       for (let j = 0; j < stride; j++) {
-        const p = off + j;
+        const p = p0 + j;
         if (usable[p] === 0) continue;
         const y0 = y[p];
-        const okM1 = offM1 >= 0 && usable[offM1 + j] !== 0;
-        const okP1 = offP1 >= 0 && usable[offP1 + j] !== 0;
         let d: number;
-        if (wc !== null && okM1 && okP1) {
-          d = wc[0] * y0 + wc[1] * y[offM1 + j] + wc[2] * y[offP1 + j];
-        } else if (!oneSided) {
-          noStencil++;
-          continue;
-        } else if (wf !== null && okP1 && usable[offP2 + j] !== 0) {
-          d = wf[0] * y0 + wf[1] * y[offP1 + j] + wf[2] * y[offP2 + j];
-        } else if (wb !== null && okM1 && usable[offM2 + j] !== 0) {
-          d = wb[0] * y0 + wb[1] * y[offM1 + j] + wb[2] * y[offM2 + j];
-        } else if (okP1) {
-          d = (y[offP1 + j] - y0) / hP;
-        } else if (okM1) {
-          d = (y0 - y[offM1 + j]) / hM;
+        if (hasCentral && usable[pM1 + j] !== 0 && usable[pP1 + j] !== 0) {
+          d = c0 * y0 + cM * y[pM1 + j] + cP * y[pP1 + j];
         } else {
-          noStencil++;
-          continue;
+          d = oneSided ? edgeDerivative(y, usable, base, j, q, y0, offM1, offM2, offP1, offP2, wf, wb, xs) : NaN;
+          if (Number.isNaN(d)) {
+            noStencil++;
+            continue;
+          }
         }
         slopeBuf[nSlope++] = d;
-        if (x > 0 && y0 > 0) elasticityBuf[nElast++] = (d * x) / y0;
+        if (xPositive && y0 > 0) elasticityBuf[nElast++] = (d * x) / y0;
         else nonPositive++;
       }
     }

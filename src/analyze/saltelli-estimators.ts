@@ -34,22 +34,39 @@ export interface SaltelliSettings {
   readonly seed: number;
 }
 
-/** Accumulated sums from which V, S_i and S_Ti follow. */
-interface Sums {
-  sa: number;
-  sb: number;
-  saa: number;
-  sbb: number;
-  sbd: Float64Array;
-  sd: Float64Array;
-  sdd: Float64Array;
+/**
+ * Per-base-sample terms whose (weighted) sums give V, S_i and S_Ti: rows 0..3 are a, b, a^2, b^2
+ * (a, b: f_A, f_B shifted by a common constant), then per input g the rows 4 + 3g + 0..2 are
+ * b d, d, d^2 (d = f_ABi - f_A). Each row is a Float64Array over the base samples.
+ */
+function indicesFromSums(sums: Float64Array, m: number, g: number): { s1: number; st: number } {
+  const c = (sums[0] + sums[1]) / (2 * m);
+  const v = (sums[2] + sums[3]) / (2 * m) - c * c;
+  if (!(v > 0)) return { s1: NaN, st: NaN };
+  const o = 4 + 3 * g;
+  return { s1: (sums[o] / m - (c * sums[o + 1]) / m) / v, st: sums[o + 2] / (2 * m * v) };
 }
 
-function indicesFromSums(s: Sums, m: number, g: number): { s1: number; st: number } {
-  const c = (s.sa + s.sb) / (2 * m);
-  const v = (s.saa + s.sbb) / (2 * m) - c * c;
-  if (!(v > 0)) return { s1: NaN, st: NaN };
-  return { s1: (s.sbd[g] / m - (c * s.sd[g]) / m) / v, st: s.sdd[g] / (2 * m * v) };
+/** sum_q w_q x_q (two accumulators to shorten the dependency chain). */
+function weightedSum(w: Float64Array, x: Float64Array, m: number): number {
+  let s0 = 0;
+  let s1 = 0;
+  let q = 0;
+  for (; q + 1 < m; q += 2) {
+    s0 += w[q] * x[q];
+    s1 += w[q + 1] * x[q + 1];
+  }
+  if (q < m) s0 += w[q] * x[q];
+  return s0 + s1;
+}
+
+/** Plain sums of every term row (the full-sample estimate). */
+function plainSums(terms: readonly Float64Array[], out: Float64Array): void {
+  terms.forEach((row, t) => {
+    let s = 0;
+    for (let q = 0; q < row.length; q++) s += row[q];
+    out[t] = s;
+  });
 }
 
 /**
@@ -98,37 +115,24 @@ export function saltelliIndices(
     let mu = 0;
     for (let q = 0; q < m; q++) mu += y[list[q]] + y[n + list[q]];
     mu /= 2 * m;
-    const a = new Float64Array(m);
-    const b = new Float64Array(m);
-    const d = inputs.map(() => new Float64Array(m));
+    const terms = Array.from({ length: 4 + 3 * gk }, () => new Float64Array(m));
     for (let q = 0; q < m; q++) {
       const j = list[q];
-      a[q] = y[j] - mu;
-      b[q] = y[n + j] - mu;
-      for (let g = 0; g < gk; g++) d[g][q] = y[(2 + inputs[g]) * n + j] - y[j];
-    }
-    const sums: Sums = { sa: 0, sb: 0, saa: 0, sbb: 0, sbd: new Float64Array(gk), sd: new Float64Array(gk), sdd: new Float64Array(gk) };
-    const accumulate = (q: number): void => {
-      const aq = a[q];
-      const bq = b[q];
-      sums.sa += aq;
-      sums.sb += bq;
-      sums.saa += aq * aq;
-      sums.sbb += bq * bq;
+      const a = y[j] - mu;
+      const b = y[n + j] - mu;
+      terms[0][q] = a;
+      terms[1][q] = b;
+      terms[2][q] = a * a;
+      terms[3][q] = b * b;
       for (let g = 0; g < gk; g++) {
-        const dq = d[g][q];
-        sums.sbd[g] += bq * dq;
-        sums.sd[g] += dq;
-        sums.sdd[g] += dq * dq;
+        const dq = y[(2 + inputs[g]) * n + j] - y[j];
+        terms[4 + 3 * g][q] = b * dq;
+        terms[5 + 3 * g][q] = dq;
+        terms[6 + 3 * g][q] = dq * dq;
       }
-    };
-    const reset = (): void => {
-      sums.sa = sums.sb = sums.saa = sums.sbb = 0;
-      sums.sbd.fill(0);
-      sums.sd.fill(0);
-      sums.sdd.fill(0);
-    };
-    for (let q = 0; q < m; q++) accumulate(q);
+    }
+    const sums = new Float64Array(terms.length);
+    plainSums(terms, sums);
     const point = inputs.map((_, g) => indicesFromSums(sums, m, g));
 
     const r = settings.resamples;
@@ -136,9 +140,12 @@ export function saltelliIndices(
     const stBoot = inputs.map(() => new Float64Array(r));
     if (r > 0) {
       const rng = createRng(deriveSeed(settings.seed, streamLabel, labels[inputs[0]]));
+      // a resample as multiplicities: w_q = times base sample q was drawn
+      const w = new Float64Array(m);
       for (let rep = 0; rep < r; rep++) {
-        reset();
-        for (let q = 0; q < m; q++) accumulate(rng.below(m));
+        w.fill(0);
+        for (let q = 0; q < m; q++) w[rng.below(m)] += 1;
+        for (let t = 0; t < terms.length; t++) sums[t] = weightedSum(w, terms[t], m);
         for (let g = 0; g < gk; g++) {
           const e = indicesFromSums(sums, m, g);
           s1Boot[g][rep] = e.s1;

@@ -88,6 +88,7 @@ export function checkTable(table: SensitivityInput, outputNames: readonly string
   if (problems.length > 0) throw new InputError(problems);
 
   if (layout.kind === 'grid') checkGridInputs(table, layout.axes, n);
+  if (layout.kind === 'saltelli') checkSaltelliInputs(table, layout.base, layout.inputs);
   return n;
 }
 
@@ -103,11 +104,42 @@ function checkGridInputs(table: SensitivityInput, axes: readonly { readonly name
       if (include !== undefined && include[r] === 0) continue;
       const expected = axis.values[Math.floor(r / stride) % size];
       const found = col[r];
-      if (!(Math.abs(found - expected) <= 1e-9 * Math.max(1, Math.abs(expected)))) {
+      if (!same(found, expected)) {
         throw new InputError(
           `analyze: grid input "${axis.name}" at row ${r} is ${found} but the layout gives ${expected} there. ` +
             'Hint: grid rows are mixed-radix over the axes in layout order, the last axis fastest.',
         );
+      }
+    }
+  }
+}
+
+function same(a: number, b: number): boolean {
+  return a === b || Math.abs(a - b) <= 1e-9 * Math.max(1, Math.abs(b));
+}
+
+/**
+ * Block AB_i must be A with column i taken from B (block-major, inputs in layout order); a table
+ * whose blocks follow another input order would silently attribute effects to the wrong inputs.
+ */
+function checkSaltelliInputs(table: SensitivityInput, base: number, names: readonly string[]): void {
+  const include = table.include;
+  const cols = names.map((name) => table.inputs[name]);
+  for (let i = 0; i < names.length; i++) {
+    const off = (2 + i) * base;
+    for (let j = 0; j < base; j++) {
+      const r = off + j;
+      if (include !== undefined && include[r] === 0) continue;
+      for (let c = 0; c < names.length; c++) {
+        const src = c === i ? base + j : j; // B row for column i, A row otherwise
+        if (include !== undefined && include[src] === 0) continue;
+        if (!same(cols[c][r], cols[c][src])) {
+          throw new InputError(
+            `analyze: saltelli row ${r} (block AB of "${names[i]}", base sample ${j}) has ${names[c]} = ${cols[c][r]} ` +
+              `but ${c === i ? 'B' : 'A'} has ${cols[c][src]}. Hint: block 2 + i must be A with column i taken from B, ` +
+              'i over the inputs in layout order.',
+          );
+        }
       }
     }
   }

@@ -3,6 +3,8 @@ import { registerDemo } from './demo.js';
 import { registerRun } from './run.js';
 import { registerMerge } from './merge.js';
 import { registerPlan } from './plan.js';
+import { registerColumn } from './column.js';
+import { registerSensitivity } from './sensitivity.js';
 
 /** Every command, in the order `meltsweep --help` lists them. */
 export function registerCommands(program: Command): void {
@@ -10,4 +12,6 @@ export function registerCommands(program: Command): void {
   registerPlan(program);
   registerRun(program);
   registerMerge(program);
+  registerColumn(program);
+  registerSensitivity(program);
 }

@@ -7,6 +7,7 @@ import { createProgress } from '../../run/progress.js';
 import { planSweep, shardRange } from '../../plan/index.js';
 import { parseNumberOption, parseWorkers } from '../options.js';
 import { formatRunSummary } from '../run-report.js';
+import { summaryAfterRun } from './sensitivity.js';
 
 export interface RunCommandOptions {
   readonly output: string;
@@ -74,6 +75,7 @@ export async function reportRun(summary: RunSummary, o: RunCommandOptions, resum
     return;
   }
   process.stdout.write(`${formatRunSummary(summary)}\n`);
+  if (o.summary !== false) process.stdout.write(`\n${await summaryAfterRun(summary.outPath)}\n`);
 }
 
 export function registerRun(program: Command): void {

@@ -1,0 +1,132 @@
+/**
+ * Sensitivity of a results file: read the swept inputs, the numeric outputs and the status
+ * column batch by batch into typed arrays, rebuild the design layout from the sweep stored in
+ * the file's metadata, analyze, and write `OUT.sensitivity.arrow` (long format).
+ */
+import * as arrow from 'apache-arrow';
+import { analyzeSensitivity, type SensitivityReport } from '../analyze/index.js';
+import { InputError } from '../errors.js';
+import { RESULT_NUMERIC_NAMES } from '../physics/fields.js';
+import { planSweep } from '../plan/index.js';
+import type { SweepSpec } from '../spec/types.js';
+import { readResultsMeta } from '../io/arrow-schema.js';
+import { readIpcBatches, readIpcSchema, writeFileAtomic } from '../io/ipc-file.js';
+import { TOOL_VERSION } from '../version.js';
+
+/** Beyond this many rows the automatic summary after a run is skipped (memory: 8 bytes per value). */
+export const AUTO_SUMMARY_MAX_ROWS = 4_000_000;
+
+export interface SensitivityFileOptions {
+  /** outputs to analyze (default: every numeric output with at least one value) */
+  readonly outputs?: readonly string[];
+  readonly resamples?: number;
+  readonly seed?: number;
+}
+
+export function sensitivityPathFor(resultsPath: string): string {
+  return resultsPath.replace(/\.arrow$/i, '') + '.sensitivity.arrow';
+}
+
+interface Columns {
+  readonly rows: number;
+  readonly inputs: Record<string, Float64Array>;
+  readonly outputs: Record<string, Float64Array>;
+  readonly include: Uint8Array;
+  readonly excludedReasons: Record<string, number>;
+}
+
+function copyInto(target: Float64Array, offset: number, vector: arrow.Vector): void {
+  for (const data of vector.data) {
+    const values = data.values as Float64Array;
+    const n = data.length;
+    for (let i = 0; i < n; i++) {
+      target[offset + i] = data.getValid(i) ? values[data.offset + i] : NaN;
+    }
+    offset += n;
+  }
+}
+
+async function readColumns(file: string, inputNames: readonly string[], outputNames: readonly string[], rows: number): Promise<Columns> {
+  const inputs = Object.fromEntries(inputNames.map((n) => [n, new Float64Array(rows)]));
+  const outputs = Object.fromEntries(outputNames.map((n) => [n, new Float64Array(rows)]));
+  const include = new Uint8Array(rows);
+  const excludedReasons: Record<string, number> = {};
+  let offset = 0;
+  for await (const batch of readIpcBatches(file)) {
+    if (offset + batch.numRows > rows) throw new InputError(`${file}: holds more rows than its metadata says (${rows})`);
+    for (const n of inputNames) copyInto(inputs[n], offset, batch.getChild(n)!);
+    for (const n of outputNames) copyInto(outputs[n], offset, batch.getChild(n)!);
+    const status = batch.getChild('status')!;
+    for (let i = 0; i < batch.numRows; i++) {
+      const s = status.get(i) as string;
+      if (s === 'ok') include[offset + i] = 1;
+      else excludedReasons[s] = (excludedReasons[s] ?? 0) + 1;
+    }
+    offset += batch.numRows;
+  }
+  if (offset !== rows) throw new InputError(`${file}: holds ${offset} rows, its metadata says ${rows}`);
+  return { rows, inputs, outputs, include, excludedReasons };
+}
+
+/** The numeric outputs that hold at least one value in the file (null-only columns say nothing). */
+async function outputsWithValues(file: string): Promise<string[]> {
+  const seen = new Set<string>();
+  for await (const batch of readIpcBatches(file)) {
+    for (const n of RESULT_NUMERIC_NAMES) {
+      if (seen.has(n)) continue;
+      const col = batch.getChild(n);
+      if (col !== null && col.nullCount < col.length) seen.add(n);
+    }
+    if (seen.size === RESULT_NUMERIC_NAMES.length) break;
+  }
+  return RESULT_NUMERIC_NAMES.filter((n) => seen.has(n));
+}
+
+export async function analyzeResultsFile(file: string, options: SensitivityFileOptions = {}): Promise<SensitivityReport> {
+  const meta = readResultsMeta(await readIpcSchema(file));
+  if (meta.rowStart !== 0 || meta.rowEnd !== meta.pointCount) {
+    throw new InputError(
+      `${file}: holds rows ${meta.rowStart}-${meta.rowEnd} of ${meta.pointCount} (shard ${meta.shard}); sensitivity needs the whole sweep: merge the shards first (meltsweep merge)`,
+    );
+  }
+  const spec = meta.sweep as SweepSpec;
+  const plan = planSweep(spec);
+  const available = await outputsWithValues(file);
+  const outputs = options.outputs ?? available;
+  for (const o of outputs) {
+    if (!RESULT_NUMERIC_NAMES.includes(o as (typeof RESULT_NUMERIC_NAMES)[number])) {
+      throw new InputError(`--outputs: ${o} is not an output column; allowed: ${RESULT_NUMERIC_NAMES.join(', ')}`);
+    }
+  }
+  const cols = await readColumns(file, plan.axisNames, outputs, meta.pointCount);
+  return analyzeSensitivity(
+    { inputs: cols.inputs, outputs: cols.outputs, include: cols.include, excludedReasons: cols.excludedReasons, layout: plan.layout },
+    { resamples: options.resamples, seed: options.seed },
+  );
+}
+
+/** Write the report's records as a long-format Arrow file (atomically). */
+export function writeSensitivityTable(report: SensitivityReport, outPath: string, sourceMeta: Record<string, string>): void {
+  const r = report.records;
+  const table = new arrow.Table({
+    output: arrow.vectorFromArray(r.map((x) => x.output), new arrow.Utf8()),
+    input: arrow.vectorFromArray(r.map((x) => x.input), new arrow.Utf8()),
+    measure: arrow.vectorFromArray(r.map((x) => x.measure), new arrow.Utf8()),
+    value: arrow.vectorFromArray(r.map((x) => x.value), new arrow.Float64()),
+    ci_low: arrow.vectorFromArray(r.map((x) => x.ci_low), new arrow.Float64()),
+    ci_high: arrow.vectorFromArray(r.map((x) => x.ci_high), new arrow.Float64()),
+    n: arrow.vectorFromArray(r.map((x) => x.n), new arrow.Int32()),
+  });
+  const md = new Map<string, string>([
+    ['meltsweep.table', 'sensitivity'],
+    ['meltsweep.version', TOOL_VERSION],
+    ['meltsweep.design', report.design],
+    ['meltsweep.counts', JSON.stringify(report.counts)],
+    ['meltsweep.notes', JSON.stringify(report.notes)],
+    ['meltsweep.measures', 'S1 first-order index; ST total-effect index; elasticity_* d ln y / d ln x percentiles over the grid; slope_norm_* (dy/dx) sd(x)/sd(y) percentiles'],
+    ...Object.entries(sourceMeta),
+  ]);
+  const schema = new arrow.Schema(table.schema.fields, md);
+  const withMeta = new arrow.Table(schema, table.batches.map((b) => new arrow.RecordBatch(schema, b.data)));
+  writeFileAtomic(outPath, arrow.tableToIPC(withMeta, 'file'));
+}

@@ -1,0 +1,43 @@
+import { afterAll, describe, expect, it } from 'vitest';
+import fs from 'node:fs';
+import path from 'node:path';
+import { validateSweep } from '../../src/spec/index.js';
+import { runSweep } from '../../src/run/run-sweep.js';
+import { analyzeResultsFile, sensitivityPathFor, writeSensitivityTable } from '../../src/run/sensitivity-file.js';
+import { readTable, tmpDir } from '../helpers.js';
+
+const dir = tmpDir('sens');
+afterAll(() => fs.rmSync(dir, { recursive: true, force: true }));
+
+describe('sensitivity of a real melting sweep', () => {
+  it('crust_km over Tp 1250-1450 degC and water 0-200 ppm is controlled by Tp', async () => {
+    // common practice: temperature controls melt volume far more than modest water does
+    const spec = validateSweep({
+      name: 'ridge R-9 sensitivity check',
+      axes: { tp_c: { from: 1250, to: 1450, count: 21 }, water_ppm: { from: 0, to: 200, count: 11 } },
+      design: { kind: 'grid' },
+      model: { thermal: 'isentropic' },
+    });
+    const out = path.join(dir, 'r9.arrow');
+    await runSweep({ spec, outPath: out, workers: 2 });
+    const report = await analyzeResultsFile(out, { outputs: ['crust_km', 'f_max'] });
+    const st = (output: string, input: string) =>
+      report.records.find((r) => r.output === output && r.input === input && r.measure === 'ST')!.value!;
+    expect(st('crust_km', 'tp_c')).toBeGreaterThan(0.8);
+    expect(st('crust_km', 'water_ppm')).toBeLessThan(0.2);
+    expect(st('crust_km', 'tp_c')).toBeGreaterThan(5 * st('crust_km', 'water_ppm'));
+    // the long-format table holds one row per record with the columns the issue asks for
+    const file = sensitivityPathFor(out);
+    writeSensitivityTable(report, file, {});
+    const t = readTable(file);
+    expect(t.numRows).toBe(report.records.length);
+    expect(t.schema.fields.map((f) => f.name)).toEqual(['output', 'input', 'measure', 'value', 'ci_low', 'ci_high', 'n']);
+  });
+
+  it('refuses a shard: sensitivity needs the whole sweep', async () => {
+    const spec = validateSweep({ name: 's', axes: { tp_c: { from: 1300, to: 1400, count: 8 } }, design: { kind: 'grid' } });
+    const out = path.join(dir, 'shard.arrow');
+    await runSweep({ spec, outPath: out, workers: 1, shard: { k: 1, n: 2 } });
+    await expect(analyzeResultsFile(out)).rejects.toThrow(/merge the shards first/);
+  });
+});
