@@ -4,7 +4,7 @@
  * geometrically to a cap, with a node placed exactly at the adiabatic onset of melting.
  */
 
-/** Defaults at resolution 1 (the grid-convergence test doubles and quadruples them). */
+/** Defaults at resolution 1 (ModelOptions.conductiveResolution divides the spacings and the growth). */
 export const CONDUCTIVE_GRID_DEFAULTS = {
   /** first spacing at the lid as a fraction of the boundary-layer thickness kappa/w */
   blFraction: 0.2,

@@ -1,44 +1,47 @@
 /**
- * Equilibrium melt fraction and its temperature slope at the fixed pressures of a grid, for the
- * Newton iteration of the conductive column.
+ * Node-level melting state for the Newton iteration of the conductive column.
  *
- * The melting law is Katz, Spiegelman & Langmuir (2003), G-cubed 4(9), 1073, with batch water
- * partitioning and the saturation cap, exactly as `meltFraction` in melting.ts (which stays the
- * reference; a test checks the two agree). The column asks for F and dF/dT at the same few hundred
- * pressures dozens of times, so this module precomputes the pressure-only terms once per node and
- * solves the implicit water equation by a safeguarded Newton iteration started from the previous
- * value at that node, instead of a cold bracketed solve each time.
+ * The column is solved for u = T + c_u F_eq(T) at each node (an enthalpy-like variable, c_u =
+ * U_LATENT_SCALE_K) rather than for T: F_eq(T) has an unbounded slope at the solidus when beta1 < 1
+ * (and at cpx exhaustion when beta2 < 1), while T(u) and F(u) are monotone with slopes in [0, 1] and
+ * [0, 1/c_u] for any melting law, so the discrete equations are Lipschitz in u and Newton with
+ * backtracking behaves. The change of variable does not change the solution.
+ *
+ * Given u, the equilibrium state is found in F, where the temperature is explicit
+ * (Katz, Spiegelman & Langmuir 2003, G-cubed 4(9), 1073, batch water with the saturation cap):
+ *     T_eq(F) = T'(F, P) - K X_melt(F)^gamma,  X_melt = min(X_bulk / (D + F (1 - D)), X_sat(P)),
+ *     T_eq(F) + c_u F = u   (increasing in F: one root in [0, 1]).
+ * The anhydrous inverse T'(F) comes from melting.ts (dryTempFromCurves); a test checks that the F found
+ * equals meltFraction(T) of melting.ts.
  */
 import {
-  drySolidusC,
-  fCpxOut,
-  lherzLiquidusC,
-  liquidusC,
+  createMeltingCurves,
+  dryTempFromCurves,
+  dryTempSlopeFromCurves,
+  setMeltingCurves,
+  waterDepressionC,
   waterSaturationWtPct,
   wetSolidusC,
+  type MeltingCurves,
 } from './melting.js';
 import type { MeltParams } from './params.js';
+import { KELVIN_OFFSET } from './units.js';
 
-/** Pressure-only terms of the melting law at each grid node (all temperatures in degC). */
+/** c_u in u = T + c_u F, K: of the order of the latent-heat temperature drop dS T / c_P. */
+export const U_LATENT_SCALE_K = 500;
+
+/** Pressure-only terms of the melting law at each grid node. */
 export interface NodeMeltTable {
   readonly n: number;
+  /** bulk water of the source, wt% */
   readonly bulkWaterWtPct: number;
-  readonly tSolC: Float64Array;
-  /** T_lherz - T_sol, degC */
-  readonly spanLherzC: Float64Array;
-  readonly fCpx: Float64Array;
-  readonly tCpxC: Float64Array;
-  /** T_liq - T_cpx_out, degC */
-  readonly spanLiqC: Float64Array;
-  readonly tLiqC: Float64Array;
+  /** anhydrous curves at each node (degC) */
+  readonly curves: readonly MeltingCurves[];
+  /** water saturation of the melt at each node, wt% */
   readonly xSatWtPct: Float64Array;
-  /** wet solidus (first melt), degC: below it F = 0 */
-  readonly tWetSolC: Float64Array;
-  readonly beta1: number;
-  readonly beta2: number;
-  readonly kWater: number;
-  readonly gammaWater: number;
-  readonly dWater: number;
+  /** wet solidus (first melt) at each node, K: below it F = 0 */
+  readonly tWetSolK: Float64Array;
+  readonly params: MeltParams;
 }
 
 /**
@@ -48,126 +51,109 @@ export interface NodeMeltTable {
  */
 export function buildNodeMeltTable(pGpa: Float64Array, bulkWaterWtPct: number, p: MeltParams): NodeMeltTable {
   const n = pGpa.length;
-  const tSolC = new Float64Array(n);
-  const spanLherzC = new Float64Array(n);
-  const fCpx = new Float64Array(n);
-  const tCpxC = new Float64Array(n);
-  const spanLiqC = new Float64Array(n);
-  const tLiqC = new Float64Array(n);
+  const curves: MeltingCurves[] = new Array<MeltingCurves>(n);
   const xSatWtPct = new Float64Array(n);
-  const tWetSolC = new Float64Array(n);
+  const tWetSolK = new Float64Array(n);
   for (let i = 0; i < n; i++) {
-    const pi = pGpa[i];
-    const tSol = drySolidusC(pi, p);
-    const span = lherzLiquidusC(pi, p) - tSol;
-    const fc = fCpxOut(pi, p);
-    const tCpx = Math.pow(fc, 1 / p.beta1) * span + tSol;
-    const tLiq = liquidusC(pi, p);
-    tSolC[i] = tSol;
-    spanLherzC[i] = span;
-    fCpx[i] = fc;
-    tCpxC[i] = tCpx;
-    spanLiqC[i] = tLiq - tCpx;
-    tLiqC[i] = tLiq;
-    xSatWtPct[i] = waterSaturationWtPct(pi, p);
-    tWetSolC[i] = bulkWaterWtPct > 0 ? wetSolidusC(pi, bulkWaterWtPct, p) : tSol;
+    curves[i] = setMeltingCurves(createMeltingCurves(), pGpa[i], p);
+    xSatWtPct[i] = waterSaturationWtPct(pGpa[i], p);
+    tWetSolK[i] = (bulkWaterWtPct > 0 ? wetSolidusC(pGpa[i], bulkWaterWtPct, p) : curves[i].tSolC) + KELVIN_OFFSET;
   }
-  return {
-    n, bulkWaterWtPct, tSolC, spanLherzC, fCpx, tCpxC, spanLiqC, tLiqC, xSatWtPct, tWetSolC,
-    beta1: p.beta1, beta2: p.beta2, kWater: p.K, gammaWater: p.gamma, dWater: p.D_H2O,
-  };
+  return { n, bulkWaterWtPct, curves, xSatWtPct, tWetSolK, params: p };
 }
 
 /**
- * Anhydrous melt fraction at effective temperature tEffC (degC) at node i; writes dF/dT' into
- * slope[0]. Same piecewise law as dryMeltFraction in melting.ts.
+ * Equilibrium state at node i for the unknown u (K): T and F_eq with T + c_u F_eq = u.
+ *
+ * @param uK u = T + c_u F, K
+ * @param fGuess previous melt fraction at this node (starting point of the solve)
+ * @param out length >= 4; on return out[0] = T (K), out[1] = F_eq, out[2] = dT/du, out[3] = dF/du (1/K)
  */
-function dryAtNode(tb: NodeMeltTable, i: number, tEffC: number, slope: Float64Array): number {
-  const dt = tEffC - tb.tSolC[i];
-  if (dt <= 0) {
-    slope[0] = 0;
-    return 0;
-  }
-  if (tEffC < tb.tCpxC[i]) {
-    const span = tb.spanLherzC[i];
-    const u = dt / span;
-    const f = Math.pow(u, tb.beta1);
-    slope[0] = (tb.beta1 * f) / dt;
-    return f;
-  }
-  if (tEffC >= tb.tLiqC[i]) {
-    slope[0] = 0;
-    return 1;
-  }
-  const fc = tb.fCpx[i];
-  const d2 = tEffC - tb.tCpxC[i];
-  if (d2 <= 0) {
-    slope[0] = 0;
-    return fc;
-  }
-  const g = Math.pow(d2 / tb.spanLiqC[i], tb.beta2);
-  slope[0] = ((1 - fc) * tb.beta2 * g) / d2;
-  return fc + (1 - fc) * g;
+export function nodeStateFromU(tb: NodeMeltTable, i: number, uK: number, fGuess: number, out: Float64Array): void {
+  solveNode(tb, i, uK, U_LATENT_SCALE_K, fGuess, out);
 }
 
 /**
- * Equilibrium melt fraction F(T, P_i, X_bulk) at node i with batch water, and dF/dT.
+ * Equilibrium state at node i for a given temperature: F_eq(T, P_i, X_bulk), with the same outputs
+ * as nodeStateFromU (dT/du and dF/du at that state), so u = T + c_u out[1].
  *
- * Solves g(F) = F_dry(T + K X_melt(F)^gamma) - F = 0 (Katz et al. 2003, eqs. 16-19). g' <= -1
- * everywhere, so Newton from the previous value converges in a few steps; a bracket [lo, hi]
- * guards the kinks (saturation cap, cpx exhaustion).
- *
- * @param tC temperature, degC
- * @param fGuess previous melt fraction at this node (any value in [0, 1])
- * @param work scratch of length >= 2; on return work[0] = F, work[1] = dF/dT (1/K)
+ * @param tK temperature, K
+ * @param fGuess previous melt fraction at this node (starting point of the solve)
+ * @param out length >= 4; out[0] = T (K), out[1] = F_eq, out[2] = dT/du, out[3] = dF/du (1/K)
  */
-export function nodeMeltFraction(tb: NodeMeltTable, i: number, tC: number, fGuess: number, work: Float64Array): void {
-  if (!(tC > tb.tWetSolC[i])) {
-    work[0] = 0;
-    work[1] = 0;
-    return;
-  }
-  const x0 = tb.bulkWaterWtPct;
-  if (x0 <= 0) {
-    const f = dryAtNode(tb, i, tC, work);
-    work[1] = work[0];
-    work[0] = f;
-    return;
-  }
-  wetSolve(tb, i, tC, fGuess, work);
+export function nodeStateFromT(tb: NodeMeltTable, i: number, tK: number, fGuess: number, out: Float64Array): void {
+  solveNode(tb, i, tK, 0, fGuess, out);
+  out[0] = tK;
 }
 
-function wetSolve(tb: NodeMeltTable, i: number, tC: number, fGuess: number, work: Float64Array): void {
+/**
+ * Solve T_eq(F) + cEff F = target for F in [0, 1] (cEff = c_u: target is u; cEff = 0: target is T)
+ * by Newton steps kept inside a shrinking bracket (bisection when a step leaves it; T_eq may have a
+ * zero or infinite slope at the solidus and at cpx exhaustion).
+ */
+function solveNode(tb: NodeMeltTable, i: number, target: number, cEff: number, fGuess: number, out: Float64Array): void {
+  const c = U_LATENT_SCALE_K;
+  if (!(target > tb.tWetSolK[i])) {
+    out[0] = target;
+    out[1] = 0;
+    out[2] = 1;
+    out[3] = 0;
+    return;
+  }
+  const p = tb.params;
+  const curves = tb.curves[i];
   const x0 = tb.bulkWaterWtPct;
-  const d = tb.dWater;
+  const d = p.D_H2O;
   const xSat = tb.xSatWtPct[i];
-  const slope = work;
+  // h(F) = T_eq(F) + cEff F - target; h(0) < 0 here. slope[0] receives dT_eq/dF.
+  const hAt = (f: number, slope: Float64Array): number => {
+    const tEff = dryTempFromCurves(f, curves, p);
+    let s = dryTempSlopeFromCurves(f, tEff, curves, p);
+    let t = tEff;
+    if (x0 > 0) {
+      const den = d + f * (1 - d);
+      const xu = x0 / den;
+      const x = xu < xSat ? xu : xSat;
+      const dep = waterDepressionC(x, p);
+      t -= dep;
+      // dT_eq/dF gains -d(dep)/dF = gamma dep (1 - D) / (D + F (1 - D)) while unsaturated
+      if (xu < xSat) s += (p.gamma * dep * (1 - d)) / den;
+    }
+    slope[0] = s;
+    return t + KELVIN_OFFSET + cEff * f - target;
+  };
+  const slope = out;
+  if (hAt(1, slope) <= 0) {
+    // above the liquidus: fully molten, the rest is sensible heat
+    out[0] = target - cEff;
+    out[1] = 1;
+    out[2] = 1;
+    out[3] = 0;
+    return;
+  }
   let lo = 0;
   let hi = 1;
-  let f = fGuess > 0 && fGuess < 1 ? fGuess : 0.5 * (tb.fCpx[i] > 0 ? tb.fCpx[i] : 0.1);
-  let gPrime = -1;
-  let fDrySlope = 0;
-  for (let it = 0; it < 60; it++) {
-    const denom = d + f * (1 - d);
-    const xUnsat = x0 / denom;
-    const saturated = xUnsat >= xSat;
-    const x = saturated ? xSat : xUnsat;
-    const depression = x > 0 ? tb.kWater * Math.pow(x, tb.gammaWater) : 0;
-    const fDry = dryAtNode(tb, i, tC + depression, slope);
-    fDrySlope = slope[0];
-    // d(depression)/dF = -gamma * depression * (1 - D) / (D + F (1 - D)) while unsaturated
-    const dDepdF = saturated ? 0 : (-tb.gammaWater * depression * (1 - d)) / denom;
-    const g = fDry - f;
-    gPrime = fDrySlope * dDepdF - 1;
-    if (g > 0) lo = f;
-    else hi = f;
-    let next = f - g / gPrime;
+  let f = fGuess > 0 && fGuess < 1 ? fGuess : Math.min(0.5, (target - tb.tWetSolK[i]) / (2 * c));
+  let tSlope = 0;
+  for (let it = 0; it < 200; it++) {
+    const h = hAt(f, slope);
+    tSlope = slope[0];
+    if (h > 0) hi = f;
+    else lo = f;
+    // with cEff = c_u, h' >= c_u, so |h| < 1e-9 K puts F within 2e-12 of the root
+    if (Math.abs(h) < 1e-9 || hi - lo < 1e-14) break;
+    let next = f - h / (tSlope + cEff);
     if (!(next > lo && next < hi)) next = 0.5 * (lo + hi);
-    const step = Math.abs(next - f);
     f = next;
-    if (step < 1e-14 || hi - lo < 1e-14) break;
   }
-  work[0] = f;
-  // implicit function theorem: dF/dT = F_dry' / (1 - F_dry' dDep/dF) = -F_dry' / g'
-  work[1] = -fDrySlope / gPrime;
+  out[0] = target - cEff * f;
+  out[1] = f;
+  if (Number.isFinite(tSlope)) {
+    const denom = tSlope + c;
+    out[2] = tSlope / denom;
+    out[3] = 1 / denom;
+  } else {
+    out[2] = 1;
+    out[3] = 0;
+  }
 }

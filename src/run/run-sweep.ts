@@ -84,10 +84,15 @@ function emptyCounts(): Record<ColumnStatus, number> {
 function checkOutput(outPath: string, force: boolean, resume: boolean): void {
   const dir = path.dirname(path.resolve(outPath));
   if (!fs.existsSync(dir)) throw new InputError(`--output: folder ${dir} does not exist`);
+  // a real probe: permission bits say nothing for root, read-only mounts or full disks
+  const probe = path.join(dir, `.meltsweep-probe-${process.pid}`);
   try {
-    fs.accessSync(dir, fs.constants.W_OK);
-  } catch {
-    throw new InputError(`--output: folder ${dir} is not writable`);
+    fs.writeFileSync(probe, 'probe');
+  } catch (err) {
+    const code = (err as NodeJS.ErrnoException).code ?? String(err);
+    throw new InputError(`--output: cannot write in folder ${dir} (${code}); choose a writable folder`);
+  } finally {
+    fs.rmSync(probe, { force: true });
   }
   if (fs.existsSync(outPath) && !force && !resume) {
     throw new InputError(`--output: ${outPath} already exists; use --force to replace it (or --resume to finish a partial run)`);

@@ -1,0 +1,80 @@
+/**
+ * Conductive columns per second on one core, at default accuracy (default grid, batch water), for a
+ * fixed, deterministic mix of 1,000 scenarios: Tp 1280-1450 degC, water 0-300 ppm (every third
+ * scenario dry), lid 0-30 km, upwelling 1-100 mm/yr spread evenly in log. Each repetition runs the set
+ * repeatedly for at least 2 s; the figure is the median over 5 repetitions, with min and max.
+ *
+ * Run standalone: node dist/bench/conductive.js
+ */
+import { conductiveColumn } from '../src/physics/conductive-column.js';
+import { DEFAULT_PARAMS } from '../src/physics/params.js';
+import type { ModelOptions, Scenario } from '../src/physics/types.js';
+import { formatBench, isMain, secondsSince, summarise, type BenchResult } from './util.js';
+
+/** The benchmark's scenario set: a low-discrepancy (additive recurrence) fill of the box. */
+export function conductiveBenchScenarios(count = 1000): Scenario[] {
+  const out: Scenario[] = [];
+  // fractional parts of multiples of irrational numbers: deterministic and evenly spread
+  const a1 = 0.6180339887498949;
+  const a2 = 0.41421356237309515;
+  const a3 = 0.7320508075688772;
+  const a4 = 0.2360679774997898;
+  for (let i = 0; i < count; i++) {
+    const u1 = (0.5 + i * a1) % 1;
+    const u2 = (0.5 + i * a2) % 1;
+    const u3 = (0.5 + i * a3) % 1;
+    const u4 = (0.5 + i * a4) % 1;
+    out.push({
+      tp_c: 1280 + 170 * u1,
+      water_ppm: i % 3 === 0 ? 0 : 300 * u2,
+      lid_km: 30 * u3,
+      upwelling_mm_yr: Math.pow(10, 2 * u4),
+    });
+  }
+  return out;
+}
+
+export interface ConductiveBenchOptions {
+  readonly repetitions?: number;
+  readonly minSeconds?: number;
+  readonly scenarios?: number;
+}
+
+/** Median conductive columns/s on the calling thread (name, unit, median, min, max, repetitions). */
+export async function benchConductive(opts: ConductiveBenchOptions = {}): Promise<BenchResult> {
+  const repetitions = opts.repetitions ?? 5;
+  const minSeconds = opts.minSeconds ?? 2;
+  const scenarios = conductiveBenchScenarios(opts.scenarios ?? 1000);
+  const model: ModelOptions = { thermal: 'conductive', water: 'batch', params: DEFAULT_PARAMS };
+  let sink = 0;
+  let failed = 0;
+  const once = (): void => {
+    for (const s of scenarios) {
+      const r = conductiveColumn(s, model);
+      sink += r.crust_km ?? 0;
+      if (r.status === 'failed') failed++;
+    }
+  };
+  once(); // warm up the JIT
+  if (failed > 0) throw new Error(`bench: ${failed} conductive columns failed`);
+  const rates: number[] = [];
+  for (let rep = 0; rep < repetitions; rep++) {
+    let n = 0;
+    const start = process.hrtime.bigint();
+    let elapsed = 0;
+    do {
+      once();
+      n += scenarios.length;
+      elapsed = secondsSince(start);
+    } while (elapsed < minSeconds);
+    rates.push(n / elapsed);
+    await new Promise((resolve) => setImmediate(resolve));
+  }
+  if (!Number.isFinite(sink)) throw new Error('bench: non-finite crust');
+  return summarise('conductive column', 'columns/s', rates);
+}
+
+if (isMain(import.meta.url)) {
+  const r = await benchConductive();
+  process.stdout.write(`${formatBench(r)}\n`);
+}
