@@ -7,6 +7,20 @@ import * as arrow from 'apache-arrow';
 import fs from 'node:fs';
 import path from 'node:path';
 
+/**
+ * Write all of `bytes` at the file's current position. fs.writeSync may write fewer bytes than
+ * asked (a disk filling up does exactly that before it raises ENOSPC): loop until all are
+ * written, so a short write can never pass for a complete one.
+ */
+export function writeAllSync(fd: number, bytes: Uint8Array): void {
+  let done = 0;
+  while (done < bytes.byteLength) {
+    const n = fs.writeSync(fd, bytes, done, bytes.byteLength - done);
+    if (n <= 0) throw new Error(`short write: ${done} of ${bytes.byteLength} bytes`);
+    done += n;
+  }
+}
+
 /** Flush pending microtasks so the writer's byte queue is drained into the file. */
 function drainTick(): Promise<void> {
   return new Promise((resolve) => setImmediate(resolve));
@@ -39,7 +53,7 @@ export class IpcFileSink {
       for await (const bytes of writer) {
         if (this.writeError !== null) continue;
         try {
-          fs.writeSync(fd, bytes as Uint8Array);
+          writeAllSync(fd, bytes as Uint8Array);
         } catch (err) {
           this.writeError = err;
         }
@@ -111,11 +125,14 @@ export function writeFileAtomic(finalPath: string, bytes: Uint8Array | string): 
   const tmp = `${finalPath}.tmp-${process.pid}`;
   const fd = fs.openSync(tmp, 'w');
   try {
-    fs.writeSync(fd, typeof bytes === 'string' ? Buffer.from(bytes) : bytes);
+    writeAllSync(fd, typeof bytes === 'string' ? Buffer.from(bytes) : bytes);
     fs.fsyncSync(fd);
-  } finally {
+  } catch (err) {
     fs.closeSync(fd);
+    fs.rmSync(tmp, { force: true }); // give the space back; the old file (if any) is untouched
+    throw err;
   }
+  fs.closeSync(fd);
   fs.renameSync(tmp, finalPath);
   fsyncDir(path.dirname(finalPath));
 }
