@@ -2,6 +2,7 @@ import { afterAll, describe, expect, it } from 'vitest';
 import fs from 'node:fs';
 import path from 'node:path';
 import { once } from 'node:events';
+import { setTimeout as sleep } from 'node:timers/promises';
 import { readTable, runCliSync, spawnCli, tableColumns, tmpDir, writeSweep } from '../helpers.js';
 
 const dir = tmpDir('kill');
@@ -30,8 +31,20 @@ function uniforms(count: number, seed: number): number[] {
 
 const KILLS_WANTED = 12;
 
+/** Rows committed in a partial run folder (from its segment names). */
+function committedRows(partialDir: string): number {
+  if (!fs.existsSync(partialDir)) return 0;
+  let rows = 0;
+  for (const name of fs.readdirSync(partialDir)) {
+    const m = /^seg-(\d+)-(\d+)\.arrows$/.exec(name);
+    if (m) rows += Number(m[2]) - Number(m[1]);
+  }
+  return rows;
+}
+
 describe('kill -9 and resume', () => {
   it('resumed runs after repeated SIGKILLs at random moments equal an uninterrupted run: no lost, no duplicated rows', async () => {
+    // (kill count and committed rows are printed for the record)
     const sweep = writeSweep(dir, 'k1.yaml', SWEEP);
     const reference = path.join(dir, 'reference.arrow');
     const t0 = performance.now();
@@ -39,22 +52,34 @@ describe('kill -9 and resume', () => {
     const referenceMs = performance.now() - t0;
     expect(ref.status, ref.stderr).toBe(0);
 
-    // Kill each process after a random delay of 3-8 % of an uninterrupted run (process start-up
-    // included), so a dozen kills land at every stage: start-up, computing, committing, publishing.
+    // Kills at random moments of every stage: one in four lands at a random time during
+    // start-up; the others wait until the process has committed new rows, then strike after a
+    // further random delay (mid-computation, mid-commit or mid-publication).
     const out = path.join(dir, 'killed.arrow');
     let kills = 0;
     let finished = false;
-    for (const u of uniforms(KILLS_WANTED + 4, 7)) {
-      const delay = referenceMs * (0.03 + 0.05 * u);
+    const committed: number[] = [];
+    for (const [i, u] of uniforms(KILLS_WANTED + 4, 7).entries()) {
       const args = ['run', sweep, '-o', out, '--workers', '2', '--quiet', '--no-summary', '--commit-seconds', '0.05'];
       if (kills > 0) args.push('--resume');
+      const before = committedRows(`${out}.partial`);
       const child = spawnCli(args);
-      const exited = once(child, 'exit');
-      const timer = setTimeout(() => child.kill('SIGKILL'), delay);
-      const [code, signal] = (await exited) as [number | null, string | null];
-      clearTimeout(timer);
+      let exitedEarly = false;
+      const exited = once(child, 'exit').then((r) => {
+        exitedEarly = true;
+        return r as [number | null, string | null];
+      });
+      if (i % 4 === 0) {
+        await sleep(u * 300);
+      } else {
+        while (!exitedEarly && committedRows(`${out}.partial`) <= before) await sleep(10);
+        await sleep(u * referenceMs * 0.05);
+      }
+      child.kill('SIGKILL');
+      const [code, signal] = await exited;
       if (signal === 'SIGKILL') {
         kills++;
+        committed.push(committedRows(`${out}.partial`));
         // never a half-written file under the final name
         if (fs.existsSync(out)) expect(fs.existsSync(`${out}.partial`)).toBe(true);
         if (kills >= KILLS_WANTED) break;
@@ -69,6 +94,9 @@ describe('kill -9 and resume', () => {
       expect(last.status, last.stderr).toBe(0);
     }
     expect(kills).toBeGreaterThanOrEqual(10);
+    // the kills landed while rows were being computed and committed, not only at start-up
+    expect(new Set(committed).size).toBeGreaterThan(3);
+    process.stdout.write(`kill test: ${kills} kills; committed rows after each: ${committed.join(', ')}\n`);
     expect(fs.existsSync(`${out}.partial`)).toBe(false);
     const a = tableColumns(readTable(out));
     const b = tableColumns(readTable(reference));
