@@ -7,8 +7,8 @@ import { RESULT_NUMERIC_NAMES } from '../physics/fields.js';
 import type { ChunkResult } from '../run/compute-chunk.js';
 import { STATUS_TYPE } from './arrow-schema.js';
 
-/** Validity bitmap of a float column where NaN marks null; null when nothing is null. */
-function nanValidity(values: Float64Array): { bitmap: Uint8Array | undefined; nullCount: number } {
+/** Validity bitmap of a float column where NaN marks null; undefined when nothing is null. */
+export function nanValidity(values: Float64Array): { bitmap: Uint8Array | undefined; nullCount: number } {
   let nullCount = 0;
   for (let i = 0; i < values.length; i++) if (values[i] !== values[i]) nullCount++;
   if (nullCount === 0) return { bitmap: undefined, nullCount: 0 };
@@ -59,6 +59,21 @@ function statusData(codes: Int8Array, dictionary: arrow.Vector<arrow.Utf8>): arr
 }
 
 /**
+ * Int64 scenario ids start, start + 1, ... written through 32-bit words (no BigInt per row).
+ * Arrow buffers are little-endian, as is every platform Node supports.
+ */
+function scenarioIds(start: number, n: number): BigInt64Array {
+  const ids = new BigInt64Array(n);
+  const words = new Uint32Array(ids.buffer);
+  for (let i = 0; i < n; i++) {
+    const id = start + i;
+    words[2 * i] = id >>> 0;
+    words[2 * i + 1] = Math.floor(id / 4294967296);
+  }
+  return ids;
+}
+
+/**
  * Build the record batch of one chunk. `idOffset` is added to the chunk's start to form
  * scenario_id (0 for whole sweeps: ids are sweep indices).
  */
@@ -68,8 +83,7 @@ export function chunkToRecordBatch(
   statusDictionary: arrow.Vector<arrow.Utf8>,
 ): arrow.RecordBatch {
   const n = chunk.end - chunk.start;
-  const ids = new BigInt64Array(n);
-  for (let i = 0; i < n; i++) ids[i] = BigInt(chunk.start + i);
+  const ids = scenarioIds(chunk.start, n);
   const children: arrow.Data[] = [
     arrow.makeData({ type: new arrow.Int64(), length: n, nullCount: 0, data: ids }),
     floatData(chunk.points.tp_c),

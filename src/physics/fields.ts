@@ -52,3 +52,38 @@ export const REASON_FIELD = {
   name: 'reason', unit: '', kind: 'utf8', nullable: true,
   description: 'why a scenario failed or fell outside the model range (null otherwise)',
 } as const satisfies FieldInfo;
+
+/**
+ * Columns of a column profile (ColumnProfile), in order: arrays along the melting path from the
+ * onset (deepest) to the top. Written as CSV by `meltsweep column --profile`.
+ */
+export const PROFILE_FIELDS = [
+  { name: 'p_gpa', unit: 'GPa', kind: 'float64', nullable: false, description: 'pressure' },
+  { name: 'depth_km', unit: 'km', kind: 'float64', nullable: false, description: 'depth, z = P / (rho_s g)' },
+  { name: 't_c', unit: 'degC', kind: 'float64', nullable: false, description: 'temperature' },
+  { name: 'f', unit: 'fraction', kind: 'float64', nullable: false, description: 'melt fraction (mass fraction, 0-1)' },
+  { name: 'h2o_melt_wt_pct', unit: 'wt%', kind: 'float64', nullable: false, description: 'water in the melt in equilibrium with the residue at that point' },
+] as const satisfies readonly FieldInfo[];
+
+export type ProfileFieldName = (typeof PROFILE_FIELDS)[number]['name'];
+
+/**
+ * Columns of the profile table (`run --profiles`): every scenario sampled on one fixed pressure
+ * grid, in long format after `scenario_id`. Units are those of PROFILE_FIELDS and of the results'
+ * productivity. Which rows hold values is decided in src/run/profile-sampling.ts: above the top of
+ * the column (inside the lid) every value is null; between the onset and the top the computed path
+ * is interpolated linearly in pressure; below the onset F = 0, productivity = 0, melt water null and
+ * T on the solid adiabat (isentropic columns; null for conductive ones, whose path starts at the
+ * onset). Rows of scenarios that were not computed (onset_beyond_range, failed) are null apart from
+ * p_gpa and depth_km.
+ */
+export const PROFILE_TABLE_FIELDS = [
+  { name: 'p_gpa', unit: 'GPa', kind: 'float64', nullable: false, description: 'pressure of the grid point' },
+  { name: 'depth_km', unit: 'km', kind: 'float64', nullable: false, description: 'depth of the grid point, z = P / (rho_s g)' },
+  { name: 't_c', unit: 'degC', kind: 'float64', nullable: true, description: 'temperature (solid adiabat below the onset; null above the top of the column)' },
+  { name: 'f', unit: 'fraction', kind: 'float64', nullable: true, description: 'melt fraction (mass fraction, 0-1; 0 below the onset)' },
+  { name: 'h2o_melt_wt_pct', unit: 'wt%', kind: 'float64', nullable: true, description: 'water in the melt at that point (null where there is no melt)' },
+  { name: 'productivity_pct_per_gpa', unit: '%/GPa', kind: 'float64', nullable: true, description: 'local productivity -dF/dP x 100: slope of the interpolated path at that point (0 below the onset)' },
+] as const satisfies readonly FieldInfo[];
+
+export type ProfileTableFieldName = (typeof PROFILE_TABLE_FIELDS)[number]['name'];

@@ -4,10 +4,11 @@
  * (Katz, Spiegelman & Langmuir 2003, G-cubed 4(9), 1073; with water the first melt holds
  * X_bulk / D_H2O, capped at saturation, so the F = 0 boundary is wetSolidusC).
  */
-import { adiabatTempC } from './adiabat.js';
-import { wetSolidusC } from './melting.js';
+import { adiabatTempC, adiabatTempK } from './adiabat.js';
+import { unsaturatedAbovePGpa, wetSolidusC } from './melting.js';
 import type { MeltParams } from './params.js';
 import { MODEL_MAX_P_GPA } from './types.js';
+import { PA_PER_GPA } from './units.js';
 
 /** Where melting starts on the adiabat. Pressures in GPa, temperatures in degC. */
 export type OnsetResult =
@@ -32,9 +33,10 @@ export const ONSET_TOL_GPA = 1e-9;
  * Find the deepest pressure in (pTopGpa, pMaxGpa] where the solid adiabat of potential
  * temperature tpC crosses the wet solidus of a source with bulkWaterWtPct of water.
  *
- * Method: scan downward from pMaxGpa in ONSET_SCAN_GPA steps until the adiabat is above the
- * solidus, then refine the bracket with the Illinois method to ONSET_TOL_GPA. No allocation
- * apart from the returned object.
+ * Method: where the excess T_adiabat - T_solidus provably falls monotonically with P (unsaturated
+ * first melt, solidus steeper than the adiabat) one sign check brackets the crossing; elsewhere scan
+ * downward in ONSET_SCAN_GPA steps until the adiabat is above the solidus. The bracket is refined
+ * with the Illinois method to ONSET_TOL_GPA. No allocation apart from the returned object.
  *
  * @param tpC mantle potential temperature, degC
  * @param bulkWaterWtPct bulk water of the source, wt%
@@ -58,6 +60,22 @@ export function findMeltOnset(
   if (!(gMax <= 0)) throw new Error(`onset: adiabat or solidus is not finite at ${pMaxGpa} GPa`);
   let hi = pMaxGpa;
   let ghi = gMax;
+  // Shortcut: where the first melt's water is certainly unsaturated the wet solidus is the dry one
+  // shifted by a constant; if that is steeper than the adiabat over [pLow, pMax] (the adiabat is
+  // convex, so its steepest point is pMax; the solidus slope is linear in P), the excess falls
+  // monotonically with P there and a single sign check at pLow brackets the only crossing.
+  const pLow = Math.max(unsaturatedAbovePGpa(bulkWaterWtPct / p.D_H2O, p), pTopGpa);
+  if (pLow < pMaxGpa) {
+    const adiabatSlopeMax = (p.alpha_s * adiabatTempK(tpC, pMaxGpa, p) * PA_PER_GPA) / (p.rho_s * p.c_P);
+    const solidusSlopeMin = Math.min(p.A2 + 2 * p.A3 * pLow, p.A2 + 2 * p.A3 * pMaxGpa);
+    if (adiabatSlopeMax < solidusSlopeMin) {
+      const gLow = excess(pLow);
+      if (gLow > 0) return { kind: 'onset', pGpa: refineRoot(excess, pLow, gLow, hi, ghi) };
+      if (!(gLow <= 0)) throw new Error(`onset: adiabat or solidus is not finite at ${pLow} GPa`);
+      hi = pLow;
+      ghi = gLow;
+    }
+  }
   while (hi > pTopGpa) {
     const lo = Math.max(hi - ONSET_SCAN_GPA, pTopGpa);
     const glo = excess(lo);

@@ -31,6 +31,13 @@ export interface ModelOptions {
   readonly stepGpa?: number;
   /** return the profile arrays along the column */
   readonly withProfile?: boolean;
+  /**
+   * conductive column: grid refinement factor (default 1; 2 halves every node spacing and the
+   * spacing growth rate, roughly doubling the number of nodes)
+   */
+  readonly conductiveResolution?: number;
+  /** conductive column: cap on Newton steps per continuation stage (default 60) */
+  readonly conductiveMaxIterations?: number;
 }
 
 /** Arrays along the column, from onset (deepest) to the top of melting. */

@@ -1,0 +1,71 @@
+/**
+ * Sweep throughput with 1, 2 (and all available) workers through the real engine
+ * (planner -> piscina pool -> reorder window -> segments -> published Arrow file), and the
+ * parallel efficiency. The sweep is a fixed isentropic grid of wet and dry scenarios.
+ *
+ * Run standalone: node dist/bench/sweep.js [points]
+ */
+import fs from 'node:fs';
+import os from 'node:os';
+import path from 'node:path';
+import { validateSweep } from '../src/spec/index.js';
+import { runSweep } from '../src/run/run-sweep.js';
+import { formatBench, isMain, summarise, type BenchResult } from './util.js';
+
+/** A grid of about `points` isentropic columns over Tp 1250-1500 degC, water 0-500 ppm, lid 0-30 km. */
+export function benchSweepSpec(points: number) {
+  const side = Math.max(2, Math.round(Math.cbrt(points)));
+  return validateSweep({
+    name: 'bench grid B-1',
+    axes: {
+      tp_c: { from: 1250, to: 1500, count: side },
+      water_ppm: { from: 0, to: 500, count: side },
+      lid_km: { from: 0, to: 30, count: side },
+    },
+    design: { kind: 'grid' },
+    model: { thermal: 'isentropic', water: 'batch' },
+  });
+}
+
+export interface SweepBenchResult {
+  readonly points: number;
+  readonly byWorkers: ReadonlyArray<BenchResult & { readonly workers: number }>;
+  /** rate with w workers / (w x rate with 1 worker), for each w > 1 */
+  readonly efficiency: ReadonlyArray<{ readonly workers: number; readonly speedup: number; readonly efficiency: number }>;
+}
+
+export async function benchSweep(points = 200_000, repetitions = 3): Promise<SweepBenchResult> {
+  const spec = benchSweepSpec(points);
+  const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'meltsweep-bench-sweep-'));
+  const cores = os.availableParallelism();
+  const counts = [...new Set([1, 2, cores])].filter((w) => w <= Math.max(2, cores));
+  const byWorkers: Array<BenchResult & { workers: number }> = [];
+  let rows = 0;
+  try {
+    for (const workers of counts) {
+      const rates: number[] = [];
+      for (let rep = 0; rep < repetitions; rep++) {
+        const out = path.join(dir, `w${workers}-${rep}.arrow`);
+        const s = await runSweep({ spec, outPath: out, workers, force: true });
+        rows = s.rows;
+        rates.push(s.rows / s.seconds);
+        fs.rmSync(out, { force: true });
+      }
+      byWorkers.push({ ...summarise(`sweep, ${workers} worker${workers === 1 ? '' : 's'} (wall clock)`, 'columns/s', rates), workers });
+    }
+  } finally {
+    fs.rmSync(dir, { recursive: true, force: true });
+  }
+  const one = byWorkers[0].median;
+  const efficiency = byWorkers.slice(1).map((b) => ({ workers: b.workers, speedup: b.median / one, efficiency: b.median / (b.workers * one) }));
+  return { points: rows, byWorkers, efficiency };
+}
+
+if (isMain(import.meta.url)) {
+  const r = await benchSweep(Number(process.argv[2] ?? 200_000));
+  process.stdout.write(`sweep of ${r.points.toLocaleString('en-US')} isentropic columns\n`);
+  for (const b of r.byWorkers) process.stdout.write(`${formatBench(b)}\n`);
+  for (const e of r.efficiency) {
+    process.stdout.write(`${e.workers} workers: speed-up ${e.speedup.toFixed(2)}x over one, parallel efficiency ${(100 * e.efficiency).toFixed(0)} %\n`);
+  }
+}

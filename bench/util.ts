@@ -1,0 +1,46 @@
+/** Small timing helpers shared by the benchmarks. */
+
+/** Median of a non-empty list (mean of the two middle values for an even count). */
+export function median(values: readonly number[]): number {
+  if (values.length === 0) throw new Error('median of an empty list');
+  const s = [...values].sort((a, b) => a - b);
+  const mid = s.length >> 1;
+  return s.length % 2 === 1 ? s[mid] : 0.5 * (s[mid - 1] + s[mid]);
+}
+
+/** One benchmark figure: the median and spread over repetitions. */
+export interface BenchResult {
+  readonly name: string;
+  readonly unit: string;
+  readonly median: number;
+  readonly min: number;
+  readonly max: number;
+  readonly repetitions: number;
+}
+
+/** Summarise per-repetition rates into a BenchResult. */
+export function summarise(name: string, unit: string, rates: readonly number[]): BenchResult {
+  return { name, unit, median: median(rates), min: Math.min(...rates), max: Math.max(...rates), repetitions: rates.length };
+}
+
+/** Seconds elapsed since a process.hrtime.bigint() reading. */
+export function secondsSince(start: bigint): number {
+  return Number(process.hrtime.bigint() - start) / 1e9;
+}
+
+/** Whether the module with this import.meta.url is the script node was started with. */
+export function isMain(moduleUrl: string): boolean {
+  const entry = process.argv[1];
+  if (entry === undefined) return false;
+  try {
+    return new URL(moduleUrl).pathname === new URL(`file://${entry}`).pathname;
+  } catch {
+    return false;
+  }
+}
+
+/** Print a BenchResult as one readable line. */
+export function formatBench(r: BenchResult): string {
+  const f = (x: number): string => x.toLocaleString('en-US', { maximumFractionDigits: 0 });
+  return `${r.name}: median ${f(r.median)} ${r.unit} (min ${f(r.min)}, max ${f(r.max)}, ${r.repetitions} repetitions)`;
+}

@@ -1,0 +1,58 @@
+/**
+ * Entry point of the physics for one scenario: picks the thermal model from a lookup table and
+ * guarantees a well-formed row (never throws, never a non-finite number in an ok row).
+ */
+import { checkFinite, failedResult, type ColumnFn } from './column-result.js';
+import { conductiveColumn } from './conductive-column.js';
+import { DEFAULT_STEP_GPA, isentropicColumn } from './isentropic-column.js';
+import { DEFAULT_PARAMS } from './params.js';
+import type { ColumnResult, ModelOptions, Scenario, ThermalModel } from './types.js';
+
+/** The thermal models by name. */
+export const THERMAL_MODELS: Readonly<Record<ThermalModel, ColumnFn>> = Object.freeze({
+  isentropic: isentropicColumn,
+  conductive: conductiveColumn,
+});
+
+/**
+ * The thermal model a scenario runs with: `auto` means conductive when the scenario has a finite
+ * upwelling rate, isentropic otherwise.
+ */
+export function resolveThermalModel(scenario: Scenario, model: ModelOptions): ThermalModel {
+  if (model.thermal === 'auto') return Number.isFinite(scenario.upwelling_mm_yr) ? 'conductive' : 'isentropic';
+  return model.thermal;
+}
+
+/**
+ * Compute one melting column. Pure and thread-safe; never throws: an exception or a non-finite
+ * number in the result gives status `failed` with a reason.
+ *
+ * @param scenario tp_c (degC), water_ppm (ppm), lid_km (km), upwelling_mm_yr (mm/yr, NaN when absent)
+ * @param model thermal model (`auto`: conductive with an upwelling rate, else isentropic), water mode,
+ *   parameters, isentropic step (GPa, default 0.05) and whether to return the profile
+ */
+export function meltColumn(scenario: Scenario, model: ModelOptions): ColumnResult {
+  try {
+    const name = resolveThermalModel(scenario, model);
+    const fn = Object.prototype.hasOwnProperty.call(THERMAL_MODELS, name) ? THERMAL_MODELS[name] : undefined;
+    if (fn === undefined) return failedResult(`unknown thermal model ${String(model.thermal)}`);
+    return checkFinite(fn(scenario, model));
+  } catch (err) {
+    return failedResult(`column: ${err instanceof Error ? err.message : String(err)}`);
+  }
+}
+
+/**
+ * ModelOptions with the defaults: thermal `auto`, water `batch`, DEFAULT_PARAMS (Katz et al. 2003
+ * Table 2 and the project conventions), step 0.05 GPa, no profile; any field can be overridden.
+ */
+export function defaultModel(overrides: Partial<ModelOptions> = {}): ModelOptions {
+  return {
+    thermal: 'auto',
+    water: 'batch',
+    params: DEFAULT_PARAMS,
+    stepGpa: DEFAULT_STEP_GPA,
+    withProfile: false,
+    ...overrides,
+  };
+}
