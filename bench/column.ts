@@ -8,19 +8,13 @@
  */
 import { defaultModel, meltColumn } from '../src/physics/column.js';
 import type { ColumnResult, Scenario } from '../src/physics/types.js';
-import { formatBench, isMain, secondsSince, summarise, type BenchResult } from './util.js';
+import { formatBench, isMain, recurrencePoint, secondsSince, summarise, type BenchResult } from './util.js';
 
 /** The benchmark's scenario set: a low-discrepancy (additive recurrence) fill of the box. */
 export function benchScenarios(count = 2000): Scenario[] {
   const out: Scenario[] = [];
-  // fractional parts of multiples of irrational numbers: deterministic and evenly spread
-  const a1 = 0.6180339887498949;
-  const a2 = 0.41421356237309515;
-  const a3 = 0.7320508075688772;
   for (let i = 0; i < count; i++) {
-    const u1 = (0.5 + i * a1) % 1;
-    const u2 = (0.5 + i * a2) % 1;
-    const u3 = (0.5 + i * a3) % 1;
+    const [u1, u2, u3] = recurrencePoint(i);
     out.push({
       tp_c: 1250 + 250 * u1,
       water_ppm: i % 2 === 0 ? 0 : 500 * u2,

@@ -9,21 +9,13 @@
 import { conductiveColumn } from '../src/physics/conductive-column.js';
 import { DEFAULT_PARAMS } from '../src/physics/params.js';
 import type { ModelOptions, Scenario } from '../src/physics/types.js';
-import { formatBench, isMain, secondsSince, summarise, type BenchResult } from './util.js';
+import { formatBench, isMain, recurrencePoint, secondsSince, summarise, type BenchResult } from './util.js';
 
 /** The benchmark's scenario set: a low-discrepancy (additive recurrence) fill of the box. */
 export function conductiveBenchScenarios(count = 1000): Scenario[] {
   const out: Scenario[] = [];
-  // fractional parts of multiples of irrational numbers: deterministic and evenly spread
-  const a1 = 0.6180339887498949;
-  const a2 = 0.41421356237309515;
-  const a3 = 0.7320508075688772;
-  const a4 = 0.2360679774997898;
   for (let i = 0; i < count; i++) {
-    const u1 = (0.5 + i * a1) % 1;
-    const u2 = (0.5 + i * a2) % 1;
-    const u3 = (0.5 + i * a3) % 1;
-    const u4 = (0.5 + i * a4) % 1;
+    const [u1, u2, u3, u4] = recurrencePoint(i);
     out.push({
       tp_c: 1280 + 170 * u1,
       water_ppm: i % 3 === 0 ? 0 : 300 * u2,

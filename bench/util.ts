@@ -44,3 +44,11 @@ export function formatBench(r: BenchResult): string {
   const f = (x: number): string => x.toLocaleString('en-US', { maximumFractionDigits: 0 });
   return `${r.name}: median ${f(r.median)} ${r.unit} (min ${f(r.min)}, max ${f(r.max)}, ${r.repetitions} repetitions)`;
 }
+
+/** Fractional parts of multiples of irrational numbers: deterministic, evenly spread points in [0, 1)^4. */
+const RECURRENCE = [0.6180339887498949, 0.41421356237309515, 0.7320508075688772, 0.2360679774997898] as const;
+
+/** Point i of the additive-recurrence fill of the unit box (four coordinates). */
+export function recurrencePoint(i: number): [number, number, number, number] {
+  return [0, 1, 2, 3].map((k) => (0.5 + i * RECURRENCE[k]) % 1) as [number, number, number, number];
+}

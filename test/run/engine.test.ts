@@ -125,58 +125,44 @@ describe('worker faults', () => {
   const flaky = fileURLToPath(new URL('../fixtures/flaky-worker.mjs', import.meta.url));
   const reference = (): Record<string, unknown[]> => tableColumns(readTable(path.join(dir, 'w1.arrow')));
 
-  it('retries a chunk whose worker threw once; the table is unchanged', async () => {
-    const faultDir = tmpDir('fault-once');
-    process.env.FAULT_DIR = faultDir;
-    process.env.FAULT_START = '16';
-    process.env.FAULT_KIND = 'throw-once';
+  /** Run the test sweep with the fault-injecting worker: `kind` strikes the chunk starting at `start`. */
+  async function runWithFault(kind: string, start: number, name: string) {
+    process.env.FAULT_DIR = tmpDir(`fault-${kind}`);
+    process.env.FAULT_START = String(start);
+    process.env.FAULT_KIND = kind;
     try {
-      const out = path.join(dir, 'retry.arrow');
-      const s = await runSweep({ spec, outPath: out, workers: 2, chunkSize: 8, workerFile: flaky });
-      expect(s.retriedChunks).toBe(1);
-      expect(s.lostChunks).toBe(0);
-      expect(tableColumns(readTable(out))).toEqual(reference());
+      const out = path.join(dir, `${name}.arrow`);
+      const summary = await runSweep({ spec, outPath: out, workers: 2, chunkSize: 8, workerFile: flaky });
+      return { summary, cols: tableColumns(readTable(out)) };
     } finally {
       delete process.env.FAULT_DIR;
     }
+  }
+
+  it('retries a chunk whose worker threw once; the table is unchanged', async () => {
+    const { summary, cols } = await runWithFault('throw-once', 16, 'retry');
+    expect(summary.retriedChunks).toBe(1);
+    expect(summary.lostChunks).toBe(0);
+    expect(cols).toEqual(reference());
   });
 
   it('records the rows of a chunk that fails twice as failed, with the reason, and completes', async () => {
-    const faultDir = tmpDir('fault-always');
-    process.env.FAULT_DIR = faultDir;
-    process.env.FAULT_START = '24';
-    process.env.FAULT_KIND = 'throw-always';
-    try {
-      const out = path.join(dir, 'lost.arrow');
-      const s = await runSweep({ spec, outPath: out, workers: 2, chunkSize: 8, workerFile: flaky });
-      expect(s.lostChunks).toBe(1);
-      expect(s.counts.failed).toBeGreaterThanOrEqual(8);
-      const cols = tableColumns(readTable(out));
-      for (let i = 24; i < 32; i++) {
-        expect(cols.status[i]).toBe('failed');
-        expect(String(cols.reason[i])).toContain('injected fault at row 24');
-        expect(cols.crust_km[i]).toBeNull();
-      }
-      const ref = reference();
-      expect(cols.crust_km.slice(0, 24)).toEqual(ref.crust_km.slice(0, 24));
-      expect(cols.crust_km.slice(32)).toEqual(ref.crust_km.slice(32));
-    } finally {
-      delete process.env.FAULT_DIR;
+    const { summary, cols } = await runWithFault('throw-always', 24, 'lost');
+    expect(summary.lostChunks).toBe(1);
+    expect(summary.counts.failed).toBeGreaterThanOrEqual(8);
+    for (let i = 24; i < 32; i++) {
+      expect(cols.status[i]).toBe('failed');
+      expect(String(cols.reason[i])).toContain('injected fault at row 24');
+      expect(cols.crust_km[i]).toBeNull();
     }
+    const ref = reference();
+    expect(cols.crust_km.slice(0, 24)).toEqual(ref.crust_km.slice(0, 24));
+    expect(cols.crust_km.slice(32)).toEqual(ref.crust_km.slice(32));
   });
 
   it('survives a worker thread that exits abruptly', async () => {
-    const faultDir = tmpDir('fault-exit');
-    process.env.FAULT_DIR = faultDir;
-    process.env.FAULT_START = '40';
-    process.env.FAULT_KIND = 'exit-once';
-    try {
-      const out = path.join(dir, 'exit.arrow');
-      const s = await runSweep({ spec, outPath: out, workers: 2, chunkSize: 8, workerFile: flaky });
-      expect(s.retriedChunks).toBe(1);
-      expect(tableColumns(readTable(out))).toEqual(reference());
-    } finally {
-      delete process.env.FAULT_DIR;
-    }
+    const { summary, cols } = await runWithFault('exit-once', 40, 'exit');
+    expect(summary.retriedChunks).toBe(1);
+    expect(cols).toEqual(reference());
   });
 });
