@@ -7,14 +7,15 @@ import { move, transferableSymbol, valueSymbol } from 'piscina';
 import { computeChunk, chunkTransferables, makeChunkContext, type ChunkContext, type ChunkResult } from '../src/run/compute-chunk.js';
 import type { ChunkTask } from '../src/run/task.js';
 
-// One context per sweep seen by this thread (a pool serves one sweep at a time).
+// One context per sweep seen by this thread (a pool serves one sweep at a time; the key
+// names the profile grid too).
 const contexts = new Map<string, ChunkContext>();
 
 function contextFor(task: ChunkTask): ChunkContext {
   let ctx = contexts.get(task.specKey);
   if (ctx === undefined) {
     contexts.clear();
-    ctx = makeChunkContext(task.spec);
+    ctx = makeChunkContext(task.spec, task.profiles);
     contexts.set(task.specKey, ctx);
   }
   return ctx;

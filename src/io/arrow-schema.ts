@@ -19,6 +19,7 @@ export const META = {
   shard: 'meltsweep.shard',
   blockLabels: 'meltsweep.block_labels',
   table: 'meltsweep.table',
+  profileGrid: 'meltsweep.profile_grid',
 } as const;
 
 export const STATUS_TYPE = new arrow.Dictionary(new arrow.Utf8(), new arrow.Int8(), 0, false);
@@ -45,7 +46,8 @@ function fieldMeta(info: FieldInfo): Map<string, string> {
   return m;
 }
 
-function arrowField(info: FieldInfo): arrow.Field {
+/** The Arrow field of a registry entry, with its unit and description in field metadata. */
+export function arrowField(info: FieldInfo): arrow.Field {
   const type =
     info.kind === 'float64' ? new arrow.Float64()
     : info.kind === 'int64' ? new arrow.Int64()

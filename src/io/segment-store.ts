@@ -17,16 +17,22 @@ export interface PartialManifest {
   readonly rowEnd: number;
   readonly chunkSize: number;
   readonly toolVersion: string;
+  /** the profile grid "FROM:TO:STEP" (GPa) when the run writes a profile table; absent otherwise */
+  readonly profileGrid?: string;
 }
 
 export interface Segment {
   readonly start: number;
   readonly end: number;
   readonly file: string;
+  /** the segment's profile rows (runs with a profile grid), committed before the segment itself */
+  readonly profileFile: string;
 }
 
 const SEGMENT_RE = /^seg-(\d{15})-(\d{15})\.arrows$/;
+const PROFILE_RE = /^seg-(\d{15})-(\d{15})\.profiles\.arrows$/;
 const pad = (n: number): string => String(n).padStart(15, '0');
+const profileName = (start: number, end: number): string => `seg-${pad(start)}-${pad(end)}.profiles.arrows`;
 
 export function partialDirFor(outPath: string): string {
   return `${outPath}.partial`;
@@ -63,11 +69,18 @@ export class SegmentStore {
    */
   segments(): Segment[] {
     const found: Segment[] = [];
+    const profiles = new Set<string>();
     for (const name of fs.readdirSync(this.dir)) {
       const m = SEGMENT_RE.exec(name);
-      if (m) found.push({ start: Number(m[1]), end: Number(m[2]), file: path.join(this.dir, name) });
+      if (m) {
+        const [start, end] = [Number(m[1]), Number(m[2])];
+        found.push({ start, end, file: path.join(this.dir, name), profileFile: path.join(this.dir, profileName(start, end)) });
+      } else if (PROFILE_RE.test(name)) profiles.add(name);
       else if (name.includes('.tmp')) fs.rmSync(path.join(this.dir, name), { force: true });
     }
+    // profile rows whose segment was never committed (a crash between the two renames) are dropped
+    for (const s of found) profiles.delete(path.basename(s.profileFile));
+    for (const name of profiles) fs.rmSync(path.join(this.dir, name), { force: true });
     found.sort((a, b) => a.start - b.start);
     let next = this.manifest.rowStart;
     for (const s of found) {
@@ -83,8 +96,16 @@ export class SegmentStore {
     return segs.length === 0 ? this.manifest.rowStart : segs[segs.length - 1].end;
   }
 
-  /** Commit rows [start, end) held in `batches` as one segment (atomic). */
-  commit(start: number, end: number, batches: readonly arrow.RecordBatch[]): void {
+  /**
+   * Commit rows [start, end) held in `batches` as one segment (atomic). With `profileBatches`
+   * (runs with a profile grid) the profile rows are committed first, so a committed segment
+   * always has its profile rows and a resume keeps the two tables consistent.
+   */
+  commit(start: number, end: number, batches: readonly arrow.RecordBatch[], profileBatches?: readonly arrow.RecordBatch[]): void {
+    if (profileBatches !== undefined) {
+      const profileBytes = arrow.tableToIPC(new arrow.Table(profileBatches as arrow.RecordBatch[]), 'stream');
+      writeFileAtomic(path.join(this.dir, profileName(start, end)), profileBytes);
+    }
     const bytes = arrow.tableToIPC(new arrow.Table(batches as arrow.RecordBatch[]), 'stream');
     writeFileAtomic(path.join(this.dir, `seg-${pad(start)}-${pad(end)}.arrows`), bytes);
   }

@@ -80,7 +80,7 @@ export type ProfileFieldName = (typeof PROFILE_FIELDS)[number]['name'];
 export const PROFILE_TABLE_FIELDS = [
   { name: 'p_gpa', unit: 'GPa', kind: 'float64', nullable: false, description: 'pressure of the grid point' },
   { name: 'depth_km', unit: 'km', kind: 'float64', nullable: false, description: 'depth of the grid point, z = P / (rho_s g)' },
-  { name: 't_c', unit: 'degC', kind: 'float64', nullable: true, description: 'temperature (solid adiabat below the onset; null above the top of the column)' },
+  { name: 't_c', unit: 'degC', kind: 'float64', nullable: true, description: 'temperature (below the onset: solid adiabat of isentropic columns, null for conductive ones; null above the top of the column)' },
   { name: 'f', unit: 'fraction', kind: 'float64', nullable: true, description: 'melt fraction (mass fraction, 0-1; 0 below the onset)' },
   { name: 'h2o_melt_wt_pct', unit: 'wt%', kind: 'float64', nullable: true, description: 'water in the melt at that point (null where there is no melt)' },
   { name: 'productivity_pct_per_gpa', unit: '%/GPa', kind: 'float64', nullable: true, description: 'local productivity -dF/dP x 100: slope of the interpolated path at that point (0 below the onset)' },

@@ -10,9 +10,18 @@ import type { SweepSpec } from '../spec/types.js';
 const MAX_CHUNK_ROWS = { isentropic: 4096, conductive: 256 } as const;
 const MIN_CHUNK_ROWS = 16;
 
-export function defaultChunkSize(spec: SweepSpec, rows: number): number {
+/** Profile rows (scenarios x grid points) one chunk may carry: bounds a chunk's memory with --profiles. */
+export const MAX_CHUNK_PROFILE_ROWS = 1_048_576;
+
+/**
+ * Rows per chunk of a sweep range.
+ * @param profilePoints points of the profile grid (0 without profiles): a chunk carries at most
+ *   MAX_CHUNK_PROFILE_ROWS profile rows
+ */
+export function defaultChunkSize(spec: SweepSpec, rows: number, profilePoints = 0): number {
   const conductive = spec.model.thermal === 'conductive' || (spec.model.thermal === 'auto' && mayHaveUpwelling(spec));
-  const max = conductive ? MAX_CHUNK_ROWS.conductive : MAX_CHUNK_ROWS.isentropic;
+  let max: number = conductive ? MAX_CHUNK_ROWS.conductive : MAX_CHUNK_ROWS.isentropic;
+  if (profilePoints > 0) max = Math.max(MIN_CHUNK_ROWS, Math.min(max, Math.floor(MAX_CHUNK_PROFILE_ROWS / profilePoints)));
   // at least ~32 chunks when the range allows, so small sweeps still use every core
   const spread = Math.ceil(rows / 32);
   return Math.max(MIN_CHUNK_ROWS, Math.min(max, spread));

@@ -5,11 +5,13 @@
  */
 import { RESULT_NUMERIC_NAMES, type ResultNumericName } from '../physics/fields.js';
 import { resolveParams } from '../physics/params.js';
-import { meltColumn } from '../physics/column.js';
+import { meltColumn, resolveThermalModel } from '../physics/column.js';
 import { COLUMN_STATUSES, type ColumnResult, type ColumnStatus, type ModelOptions, type Scenario } from '../physics/types.js';
 import { allocatePointBatch, planSweep } from '../plan/index.js';
 import type { PointBatch, Plan } from '../plan/types.js';
 import type { SweepSpec } from '../spec/types.js';
+import { profileGridPressures, type ProfileGrid } from './profile-grid.js';
+import { allocateProfileSamples, clearProfileRow, sampleColumnProfile, type ProfileSamples } from './profile-sampling.js';
 
 export const STATUS_CODE: Readonly<Record<ColumnStatus, number>> = Object.freeze(
   Object.fromEntries(COLUMN_STATUSES.map((s, i) => [s, i])) as Record<ColumnStatus, number>,
@@ -28,6 +30,8 @@ export interface ChunkResult {
   readonly reasons: ReadonlyArray<readonly [number, string]>;
   /** thread CPU time spent on the columns, ms */
   readonly computeMs: number;
+  /** the columns sampled on the profile grid (only when the run asks for profiles) */
+  readonly profiles?: ProfileSamples;
 }
 
 /** What a column computation needs besides the points: built once per spec. */
@@ -35,14 +39,22 @@ export interface ChunkContext {
   readonly spec: SweepSpec;
   readonly plan: Plan;
   readonly model: ModelOptions;
+  /** the profile grid's pressures (GPa, ascending), or null when no profile table is written */
+  readonly profilePressures: Float64Array | null;
 }
 
-export function makeChunkContext(spec: SweepSpec): ChunkContext {
+/**
+ * Everything computeChunk needs for a sweep, built once per thread. With a profile grid the
+ * columns keep their profile arrays (withProfile) and are sampled onto the grid.
+ */
+export function makeChunkContext(spec: SweepSpec, profiles?: ProfileGrid): ChunkContext {
   const params = resolveParams(spec.model.params);
+  const withProfile = profiles !== undefined;
   return {
     spec,
     plan: planSweep(spec),
-    model: { thermal: spec.model.thermal, water: spec.model.water, params, stepGpa: spec.model.step_gpa },
+    model: { thermal: spec.model.thermal, water: spec.model.water, params, stepGpa: spec.model.step_gpa, withProfile },
+    profilePressures: withProfile ? profileGridPressures(profiles) : null,
   };
 }
 
@@ -72,6 +84,8 @@ export function computeChunk(ctx: ChunkContext, start: number, end: number): Chu
   const status = new Uint8Array(n);
   const numeric = allocateNumeric(n);
   const reasons: Array<readonly [number, string]> = [];
+  const pressures = ctx.profilePressures;
+  const profiles = pressures === null ? undefined : allocateProfileSamples(n, pressures.length);
   const t0 = performance.now();
   for (let i = 0; i < n; i++) {
     const scenario: Scenario = {
@@ -95,6 +109,7 @@ export function computeChunk(ctx: ChunkContext, start: number, end: number): Chu
       status[i] = FAILED_CODE;
       for (const name of RESULT_NUMERIC_NAMES) numeric[name][i] = NaN;
       reasons.push([i, failure ?? 'no result']);
+      if (profiles !== undefined) clearProfileRow(profiles, i);
       continue;
     }
     const ok: ColumnResult = result;
@@ -104,8 +119,15 @@ export function computeChunk(ctx: ChunkContext, start: number, end: number): Chu
       numeric[name][i] = v === null ? NaN : v;
     }
     if (ok.reason !== null) reasons.push([i, ok.reason]);
+    if (profiles !== undefined && pressures !== null) {
+      const thermal = resolveThermalModel(scenario, ctx.model);
+      sampleColumnProfile(ok, scenario.tp_c, scenario.lid_km, thermal, ctx.model.params, pressures, profiles, i);
+    }
   }
-  return { start, end, points, status, numeric, reasons, computeMs: performance.now() - t0 };
+  const computeMs = performance.now() - t0;
+  return profiles === undefined
+    ? { start, end, points, status, numeric, reasons, computeMs }
+    : { start, end, points, status, numeric, reasons, computeMs, profiles };
 }
 
 /** Rows of a chunk that could not be computed at all (worker lost twice): all failed, inputs kept. */
@@ -118,7 +140,9 @@ export function failedChunk(ctx: ChunkContext, start: number, end: number, reaso
   for (const name of RESULT_NUMERIC_NAMES) numeric[name].fill(NaN);
   const reasons: Array<readonly [number, string]> = [];
   for (let i = 0; i < n; i++) reasons.push([i, reason]);
-  return { start, end, points, status, numeric, reasons, computeMs: 0 };
+  const pressures = ctx.profilePressures;
+  if (pressures === null) return { start, end, points, status, numeric, reasons, computeMs: 0 };
+  return { start, end, points, status, numeric, reasons, computeMs: 0, profiles: allocateProfileSamples(n, pressures.length) };
 }
 
 /** Every ArrayBuffer of a chunk, for moving it across a thread boundary without copying. */
@@ -132,5 +156,9 @@ export function chunkTransferables(c: ChunkResult): ArrayBuffer[] {
   ];
   if (c.points.block) list.push(c.points.block.buffer as ArrayBuffer);
   for (const name of RESULT_NUMERIC_NAMES) list.push(c.numeric[name].buffer as ArrayBuffer);
+  const pr = c.profiles;
+  if (pr !== undefined) {
+    list.push(pr.t_c.buffer as ArrayBuffer, pr.f.buffer as ArrayBuffer, pr.h2o_melt_wt_pct.buffer as ArrayBuffer, pr.productivity_pct_per_gpa.buffer as ArrayBuffer);
+  }
   return list;
 }

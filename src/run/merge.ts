@@ -1,14 +1,21 @@
 /**
  * Merge shard outputs into one table: every shard must come from the same sweep (hash) and
- * together they must cover the sweep's rows exactly once.
+ * together they must cover the sweep's rows exactly once. Shards may be in any table format;
+ * the merged table is written in the format asked for. When every shard has a profile table
+ * (SHARD.profiles.EXT), those are merged too.
  */
+import * as arrow from 'apache-arrow';
 import fs from 'node:fs';
 import path from 'node:path';
 import { InputError, RunError } from '../errors.js';
 import type { ColumnStatus } from '../physics/types.js';
 import { makeStatusDictionary, readResultsMeta, resultsSchema, type ResultsTableMeta } from '../io/arrow-schema.js';
 import { withSharedDictionary } from '../io/arrow-batch.js';
-import { IpcFileSink, readIpcBatches, readIpcSchema } from '../io/ipc-file.js';
+import { META } from '../io/arrow-schema.js';
+import { profilesPathFor, resolveOutputFormat, type OutputFormat } from '../io/output-format.js';
+import { profilesSchema } from '../io/profile-table.js';
+import { readTableBatches, readTableSchema } from '../io/table-reader.js';
+import { openTableSink, type TableSinkOptions } from '../io/table-sink.js';
 import { countStatuses } from './run-sweep.js';
 import { COLUMN_STATUSES } from '../physics/types.js';
 
@@ -17,6 +24,21 @@ export interface MergeSummary {
   readonly rows: number;
   readonly shards: number;
   readonly counts: Readonly<Record<ColumnStatus, number>>;
+  readonly format: OutputFormat;
+  /** the merged profile table, when every shard had one; null otherwise */
+  readonly profilesPath: string | null;
+  /** why the profile tables were not merged, when some shards had one and others not */
+  readonly profilesNote: string | null;
+}
+
+/** Options of mergeShards. */
+export interface MergeOptions {
+  /** replace an existing output */
+  readonly force?: boolean;
+  /** format of the merged table (default: from the output's extension, else arrow) */
+  readonly format?: OutputFormat;
+  /** writer settings (Parquet compression, row group size) */
+  readonly writer?: TableSinkOptions;
 }
 
 interface ShardInfo {
@@ -32,7 +54,7 @@ export async function checkShards(files: readonly string[]): Promise<ShardInfo[]
     if (!fs.existsSync(file)) throw new InputError(`merge: ${file} does not exist`);
     let meta: ResultsTableMeta;
     try {
-      meta = readResultsMeta(await readIpcSchema(file));
+      meta = readResultsMeta(await readTableSchema(file));
     } catch (err) {
       throw new InputError(`merge: ${file} is not a meltsweep results file (${err instanceof Error ? err.message : String(err)})`);
     }
@@ -58,20 +80,65 @@ export async function checkShards(files: readonly string[]): Promise<ShardInfo[]
   return infos;
 }
 
-export async function mergeShards(files: readonly string[], outPath: string, force = false): Promise<MergeSummary> {
+/** The profile grid shared by every shard's profile table; null when no shard has one. */
+async function shardProfileGrid(infos: readonly ShardInfo[]): Promise<{ grid: string | null; note: string | null }> {
+  const present = infos.filter((s) => fs.existsSync(profilesPathFor(s.file)));
+  if (present.length === 0) return { grid: null, note: null };
+  if (present.length < infos.length) {
+    return { grid: null, note: `profile tables not merged: only ${present.length} of ${infos.length} shards have one` };
+  }
+  const grids = new Set<string>();
+  for (const s of infos) {
+    const file = profilesPathFor(s.file);
+    const md = (await readTableSchema(file)).metadata;
+    if (md.get(META.sweepHash) !== s.meta.sweepHash || md.get(META.rowRange) !== `${s.meta.rowStart}-${s.meta.rowEnd}`) {
+      throw new InputError(`merge: ${file} does not belong to ${s.file} (another sweep or row range)`);
+    }
+    grids.add(md.get(META.profileGrid) ?? '');
+  }
+  if (grids.size !== 1) throw new InputError(`merge: the shards' profile tables use different pressure grids (${[...grids].join(', ')})`);
+  return { grid: [...grids][0], note: null };
+}
+
+/**
+ * Merge shard tables of one sweep into `outPath` (atomically, in the format asked for).
+ * @param optionsOrForce MergeOptions, or a boolean: replace an existing output
+ * @throws InputError when the shards do not fit together or the output exists without force
+ */
+export async function mergeShards(files: readonly string[], outPath: string, optionsOrForce: MergeOptions | boolean = {}): Promise<MergeSummary> {
+  // a boolean third argument is the force flag (the original signature)
+  const options: MergeOptions = typeof optionsOrForce === 'boolean' ? { force: optionsOrForce } : optionsOrForce;
   const infos = await checkShards(files);
   const resolved = path.resolve(outPath);
-  if (fs.existsSync(resolved) && !force) throw new InputError(`--output: ${outPath} already exists; use --force to replace it`);
+  const format = resolveOutputFormat(resolved, options.format);
+  if (fs.existsSync(resolved) && options.force !== true) throw new InputError(`--output: ${outPath} already exists; use --force to replace it`);
+  const { grid, note } = await shardProfileGrid(infos);
   const m = infos[0].meta;
   const meta: ResultsTableMeta = { ...m, rowStart: 0, rowEnd: m.pointCount, shard: '1/1' };
+  let profilesPath: string | null = null;
+  if (grid !== null) {
+    profilesPath = profilesPathFor(resolved);
+    if (fs.existsSync(profilesPath) && options.force !== true) throw new InputError(`--output: ${profilesPath} already exists; use --force to replace it`);
+    const pSchema = profilesSchema(meta, grid);
+    const psink = await openTableSink(format, profilesPath, pSchema, options.writer);
+    try {
+      for (const s of infos) {
+        for await (const batch of readTableBatches(profilesPathFor(s.file))) await psink.write(new arrow.RecordBatch(pSchema, batch.data));
+      }
+      await psink.publish();
+    } catch (err) {
+      await psink.abort();
+      throw new RunError(`cannot write ${profilesPath}: ${err instanceof Error ? err.message : String(err)}`);
+    }
+  }
   const schema = resultsSchema(meta);
   const dictionary = makeStatusDictionary();
   const counts = Object.fromEntries(COLUMN_STATUSES.map((s) => [s, 0])) as Record<ColumnStatus, number>;
-  const sink = new IpcFileSink(resolved, `${resolved}.tmp-${process.pid}`, schema);
+  const sink = await openTableSink(format, resolved, schema, options.writer);
   let rows = 0;
   try {
     for (const s of infos) {
-      for await (const batch of readIpcBatches(s.file)) {
+      for await (const batch of readTableBatches(s.file)) {
         const rebuilt = withSharedDictionary(batch, schema, dictionary);
         countStatuses(rebuilt, counts);
         rows += rebuilt.numRows;
@@ -83,5 +150,5 @@ export async function mergeShards(files: readonly string[], outPath: string, for
     await sink.abort();
     throw new RunError(`cannot write ${outPath}: ${err instanceof Error ? err.message : String(err)}`);
   }
-  return { outPath: resolved, rows, shards: infos.length, counts };
+  return { outPath: resolved, rows, shards: infos.length, counts, format, profilesPath, profilesNote: note };
 }

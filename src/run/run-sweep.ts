@@ -1,6 +1,7 @@
 /**
  * Run a sweep: split the index range into chunks, integrate them on a piscina pool, write
- * the results in scenario order into committed segments, and publish one Arrow IPC file.
+ * the results in scenario order into committed segments, and publish one table (Arrow IPC,
+ * Parquet or CSV; with a profile grid, a second table of profiles).
  *
  * Memory is bounded by the in-flight window (finished chunks wait in a small reorder buffer;
  * no new chunk is submitted while the window is full) and by the segment size.
@@ -20,10 +21,15 @@ import type { SweepSpec } from '../spec/types.js';
 import { TOOL_VERSION } from '../version.js';
 import { chunkToRecordBatch, withSharedDictionary } from '../io/arrow-batch.js';
 import { makeStatusDictionary, resultsSchema, type ResultsTableMeta } from '../io/arrow-schema.js';
-import { IpcFileSink, readIpcBatches, readIpcSchema } from '../io/ipc-file.js';
-import { partialDirFor, SegmentStore, type PartialManifest } from '../io/segment-store.js';
+import { readIpcBatches } from '../io/ipc-file.js';
+import { profilesPathFor, resolveOutputFormat, type OutputFormat } from '../io/output-format.js';
+import { profileAxis, profileChunkToRecordBatch, profilesSchema } from '../io/profile-table.js';
+import { partialDirFor, SegmentStore, type PartialManifest, type Segment } from '../io/segment-store.js';
+import { readTableBatches, readTableSchema } from '../io/table-reader.js';
+import { openTableSink, publishedFiles, type TableSinkOptions } from '../io/table-sink.js';
 import { failedChunk, makeChunkContext, type ChunkResult } from './compute-chunk.js';
 import { defaultChunkSize } from './chunks.js';
+import { formatProfileGrid, profileGridPressures, type ProfileGrid } from './profile-grid.js';
 import type { ProgressSink } from './progress.js';
 import type { ChunkTask } from './task.js';
 import { sweepWorkerFile } from './worker-file.js';
@@ -55,6 +61,12 @@ export interface RunOptions {
   readonly signal?: AbortSignal;
   /** a different worker module (tests inject faults with it) */
   readonly workerFile?: string;
+  /** table format of the output (default: from the extension of outPath, else arrow) */
+  readonly format?: OutputFormat;
+  /** also write the profile table (profilesPathFor(outPath)): every column sampled on this pressure grid */
+  readonly profiles?: ProfileGrid;
+  /** writer settings (Parquet compression, row group size) */
+  readonly writer?: TableSinkOptions;
 }
 
 export interface RunSummary {
@@ -74,6 +86,10 @@ export interface RunSummary {
   readonly lostChunks: number;
   readonly interrupted: boolean;
   readonly sweepHash: string;
+  /** format of the published table(s) */
+  readonly format: OutputFormat;
+  /** the profile table, when the run writes one */
+  readonly profilesPath: string | null;
 }
 
 function emptyCounts(): Record<ColumnStatus, number> {
@@ -106,10 +122,18 @@ function removeStaleTemporaries(outPath: string): void {
   for (const name of fs.readdirSync(dir)) if (name.startsWith(prefix)) fs.rmSync(path.join(dir, name), { force: true });
 }
 
-async function existingOutputMatches(outPath: string, manifest: PartialManifest): Promise<boolean> {
+/** Whether the published table(s) are a finished run of this sweep, rows and profile grid. */
+async function existingOutputMatches(outPath: string, manifest: PartialManifest, profilesPath: string | null): Promise<boolean> {
+  const matches = async (file: string, grid: string | undefined): Promise<boolean> => {
+    const md = (await readTableSchema(file)).metadata;
+    return (
+      md.get('meltsweep.sweep_hash') === manifest.sweepHash &&
+      md.get('meltsweep.row_range') === `${manifest.rowStart}-${manifest.rowEnd}` &&
+      md.get('meltsweep.profile_grid') === grid
+    );
+  };
   try {
-    const md = (await readIpcSchema(outPath)).metadata;
-    return md.get('meltsweep.sweep_hash') === manifest.sweepHash && md.get('meltsweep.row_range') === `${manifest.rowStart}-${manifest.rowEnd}`;
+    return (await matches(outPath, undefined)) && (profilesPath === null || (await matches(profilesPath, manifest.profileGrid)));
   } catch {
     return false;
   }
@@ -131,18 +155,26 @@ export async function runSweep(opts: RunOptions): Promise<RunSummary> {
   const outPath = path.resolve(opts.outPath);
   const force = opts.force === true;
   const resume = opts.resume === true;
+  const format = resolveOutputFormat(outPath, opts.format);
+  const profilesPath = opts.profiles ? profilesPathFor(outPath) : null;
+  const profileGrid = opts.profiles ? formatProfileGrid(opts.profiles) : undefined;
+  const profilePressures = opts.profiles ? profileGridPressures(opts.profiles) : null;
   checkOutput(outPath, force, resume);
+  if (profilesPath !== null && fs.existsSync(profilesPath) && !force && !resume) {
+    throw new InputError(`--output: ${profilesPath} (the profile table) already exists; use --force to replace it`);
+  }
 
   const partialDir = partialDirFor(outPath);
   const manifest: PartialManifest = {
     sweepHash: hash,
     rowStart,
     rowEnd,
-    chunkSize: opts.chunkSize ?? defaultChunkSize(spec, rowEnd - rowStart),
+    chunkSize: opts.chunkSize ?? defaultChunkSize(spec, rowEnd - rowStart, profilePressures?.length ?? 0),
     toolVersion: TOOL_VERSION,
+    ...(profileGrid !== undefined ? { profileGrid } : {}),
   };
   if (force) fs.rmSync(partialDir, { recursive: true, force: true });
-  removeStaleTemporaries(outPath);
+  for (const f of [...publishedFiles(format, outPath), ...(profilesPath ? publishedFiles(format, profilesPath) : [])]) removeStaleTemporaries(f);
 
   let store = fs.existsSync(partialDir) ? SegmentStore.open(partialDir) : null;
   if (store !== null && !resume) {
@@ -155,14 +187,18 @@ export async function runSweep(opts: RunOptions): Promise<RunSummary> {
         `--resume: the partial run in ${partialDir} belongs to another sweep or shard (hash ${m.sweepHash.slice(0, 12)}, rows ${m.rowStart}-${m.rowEnd}); this sweep is ${hash.slice(0, 12)}, rows ${rowStart}-${rowEnd}`,
       );
     }
+    if (m.profileGrid !== profileGrid) {
+      const had = m.profileGrid === undefined ? 'without --profiles' : `with --profiles ${m.profileGrid}`;
+      throw new InputError(`--resume: the partial run in ${partialDir} was started ${had}; resume it with the same --profiles (or start over with --force)`);
+    }
   } else if (fs.existsSync(partialDir)) {
     // a folder without a readable manifest: a crash while creating it
     fs.rmSync(partialDir, { recursive: true, force: true });
   }
   if (resume && fs.existsSync(outPath)) {
-    if (await existingOutputMatches(outPath, manifest)) {
+    if (await existingOutputMatches(outPath, manifest, profilesPath)) {
       store?.remove();
-      return finishedSummary(outPath, manifest, workers, t0, hash);
+      return finishedSummary(outPath, manifest, workers, t0, hash, format, profilesPath);
     }
     if (!force) throw new InputError(`--resume: ${outPath} exists but is not a finished run of this sweep; use --force to replace it`);
   }
@@ -182,13 +218,16 @@ export async function runSweep(opts: RunOptions): Promise<RunSummary> {
   };
   const schema = resultsSchema(meta);
   const dictionary = makeStatusDictionary();
+  const pSchema = profileGrid !== undefined ? profilesSchema(meta, profileGrid) : null;
+  const axis = profilePressures !== null ? profileAxis(profilePressures, params) : null;
 
   const resumeFrom = store.committedEnd();
   const chunks: Array<[number, number]> = [];
   for (let s = resumeFrom; s < rowEnd; s += chunkSize) chunks.push([s, Math.min(s + chunkSize, rowEnd)]);
 
   const ctx = makeChunkContext(spec);
-  const specKey = hash;
+  // the worker keeps one context per key: the profile grid changes what a context computes
+  const specKey = profileGrid === undefined ? hash : `${hash}|profiles ${profileGrid}`;
   let retriedChunks = 0;
   let lostChunks = 0;
   let interrupted = false;
@@ -205,7 +244,7 @@ export async function runSweep(opts: RunOptions): Promise<RunSummary> {
 
   const runChunk = async (idx: number): Promise<ChunkResult> => {
     const [s, e] = chunks[idx];
-    const task: ChunkTask = { specKey, spec, start: s, end: e };
+    const task: ChunkTask = opts.profiles ? { specKey, spec, start: s, end: e, profiles: opts.profiles } : { specKey, spec, start: s, end: e };
     try {
       return await pool!.run(task);
     } catch (first) {
@@ -226,6 +265,8 @@ export async function runSweep(opts: RunOptions): Promise<RunSummary> {
   let nextSubmit = 0;
   let nextWrite = 0;
   let segBatches: arrow.RecordBatch[] = [];
+  let segProfileBatches: arrow.RecordBatch[] = [];
+  let segProfileRows = 0;
   let segStart = resumeFrom;
   let segEnd = resumeFrom;
   let segRows = 0;
@@ -236,7 +277,7 @@ export async function runSweep(opts: RunOptions): Promise<RunSummary> {
   const commitSegment = (): void => {
     if (segBatches.length === 0) return;
     try {
-      store!.commit(segStart, segEnd, segBatches);
+      store!.commit(segStart, segEnd, segBatches, pSchema !== null ? segProfileBatches : undefined);
     } catch (err) {
       const why = err instanceof Error ? err.message : String(err);
       throw new RunError(
@@ -244,6 +285,8 @@ export async function runSweep(opts: RunOptions): Promise<RunSummary> {
       );
     }
     segBatches = [];
+    segProfileBatches = [];
+    segProfileRows = 0;
     segStart = segEnd;
     segRows = 0;
     lastCommit = performance.now();
@@ -271,9 +314,16 @@ export async function runSweep(opts: RunOptions): Promise<RunSummary> {
         finished.delete(nextWrite);
         nextWrite++;
         segBatches.push(chunkToRecordBatch(ready, schema, dictionary));
+        if (pSchema !== null && axis !== null) {
+          const pb = profileChunkToRecordBatch(ready, pSchema, axis);
+          if (pb === null) throw new RunError(`rows ${ready.start}-${ready.end} came back without their profiles`);
+          segProfileBatches.push(pb);
+          segProfileRows += pb.numRows;
+        }
         segEnd = ready.end;
         segRows += ready.end - ready.start;
-        if (segRows >= segmentRows || performance.now() - lastCommit >= segmentMs) commitSegment();
+        // profile rows are 7 numbers each: a segment holds at most 8 x segmentRows of them
+        if (segRows >= segmentRows || segProfileRows >= segmentRows * 8 || performance.now() - lastCommit >= segmentMs) commitSegment();
         opts.progress?.update(segEnd - rowStart);
         continue;
       }
@@ -294,32 +344,45 @@ export async function runSweep(opts: RunOptions): Promise<RunSummary> {
     return {
       outPath, rowStart, rowEnd, rows: segEnd - rowStart, computedRows, counts: emptyCounts(),
       seconds: (performance.now() - t0) / 1000, workers, chunkSize, retriedChunks, lostChunks, interrupted: true, sweepHash: hash,
+      format, profilesPath,
     };
   }
   opts.progress?.finish(rowEnd - rowStart);
 
-  const counts = await publishFromSegments(store, outPath, schema, dictionary);
+  // the profile table first: a published results table means the run is complete
+  if (profilesPath !== null && pSchema !== null) {
+    await publishFromSegments(store, profilesPath, pSchema, null, format, (seg) => seg.profileFile, opts.writer);
+  }
+  const counts = await publishFromSegments(store, outPath, schema, dictionary, format, (seg) => seg.file, opts.writer);
   store.remove();
   return {
     outPath, rowStart, rowEnd, rows: rowEnd - rowStart, computedRows, counts,
     seconds: (performance.now() - t0) / 1000, workers, chunkSize, retriedChunks, lostChunks, interrupted: false, sweepHash: hash,
+    format, profilesPath,
   };
 }
 
-/** Concatenate the committed segments into the final IPC file and count rows by status. */
+/**
+ * Concatenate the committed segments (or their profile companions, by `fileOf`) into the final
+ * table in the requested format, and count rows by status. `dictionary`: the shared status
+ * dictionary (null for tables without a status column).
+ */
 async function publishFromSegments(
   store: SegmentStore,
   outPath: string,
   schema: arrow.Schema,
-  dictionary: arrow.Vector<arrow.Utf8>,
+  dictionary: arrow.Vector<arrow.Utf8> | null,
+  format: OutputFormat,
+  fileOf: (seg: Segment) => string,
+  writer?: TableSinkOptions,
 ): Promise<Record<ColumnStatus, number>> {
   const counts = emptyCounts();
-  const sink = new IpcFileSink(outPath, `${outPath}.tmp-${process.pid}`, schema);
+  const sink = await openTableSink(format, outPath, schema, writer);
   try {
     for (const seg of store.segments()) {
-      for await (const batch of readIpcBatches(seg.file)) {
-        const rebuilt = withSharedDictionary(batch, schema, dictionary);
-        countStatuses(rebuilt, counts);
+      for await (const batch of readIpcBatches(fileOf(seg))) {
+        const rebuilt = dictionary === null ? new arrow.RecordBatch(schema, batch.data) : withSharedDictionary(batch, schema, dictionary);
+        if (dictionary !== null) countStatuses(rebuilt, counts);
         await sink.write(rebuilt);
       }
     }
@@ -344,16 +407,18 @@ export function countStatuses(batch: arrow.RecordBatch, counts: Record<ColumnSta
   }
 }
 
-async function finishedSummary(outPath: string, manifest: PartialManifest, workers: number, t0: number, hash: string): Promise<RunSummary> {
+async function finishedSummary(
+  outPath: string, manifest: PartialManifest, workers: number, t0: number, hash: string, format: OutputFormat, profilesPath: string | null,
+): Promise<RunSummary> {
   const counts = emptyCounts();
   let rows = 0;
-  for await (const batch of readIpcBatches(outPath)) {
+  for await (const batch of readTableBatches(outPath)) {
     countStatuses(batch, counts);
     rows += batch.numRows;
   }
   return {
     outPath, rowStart: manifest.rowStart, rowEnd: manifest.rowEnd, rows, computedRows: 0, counts,
     seconds: (performance.now() - t0) / 1000, workers, chunkSize: manifest.chunkSize, retriedChunks: 0, lostChunks: 0,
-    interrupted: false, sweepHash: hash,
+    interrupted: false, sweepHash: hash, format, profilesPath,
   };
 }

@@ -4,13 +4,16 @@
  * the file's metadata, analyze, and write `OUT.sensitivity.arrow` (long format).
  */
 import * as arrow from 'apache-arrow';
+import path from 'node:path';
 import { analyzeSensitivity, type SensitivityReport } from '../analyze/index.js';
 import { InputError } from '../errors.js';
 import { RESULT_NUMERIC_NAMES } from '../physics/fields.js';
 import { planSweep } from '../plan/index.js';
 import type { SweepSpec } from '../spec/types.js';
 import { readResultsMeta } from '../io/arrow-schema.js';
-import { readIpcBatches, readIpcSchema, writeFileAtomic } from '../io/ipc-file.js';
+import { writeFileAtomic } from '../io/ipc-file.js';
+import { formatFromExtension } from '../io/output-format.js';
+import { readTableBatches, readTableSchema } from '../io/table-reader.js';
 import { TOOL_VERSION } from '../version.js';
 
 /** Beyond this many rows the automatic summary after a run is skipped (memory: 8 bytes per value). */
@@ -23,8 +26,11 @@ export interface SensitivityFileOptions {
   readonly seed?: number;
 }
 
+/** `r7.arrow` (or .parquet, .csv, ...) -> `r7.sensitivity.arrow`; the sensitivity table is always Arrow IPC. */
 export function sensitivityPathFor(resultsPath: string): string {
-  return resultsPath.replace(/\.arrow$/i, '') + '.sensitivity.arrow';
+  const ext = path.extname(resultsPath);
+  const base = ext !== '' && formatFromExtension(resultsPath) !== null ? resultsPath.slice(0, -ext.length) : resultsPath;
+  return `${base}.sensitivity.arrow`;
 }
 
 interface Columns {
@@ -52,7 +58,7 @@ async function readColumns(file: string, inputNames: readonly string[], outputNa
   const include = new Uint8Array(rows);
   const excludedReasons: Record<string, number> = {};
   let offset = 0;
-  for await (const batch of readIpcBatches(file)) {
+  for await (const batch of readTableBatches(file)) {
     if (offset + batch.numRows > rows) throw new InputError(`${file}: holds more rows than its metadata says (${rows})`);
     for (const n of inputNames) copyInto(inputs[n], offset, batch.getChild(n)!);
     for (const n of outputNames) copyInto(outputs[n], offset, batch.getChild(n)!);
@@ -71,7 +77,7 @@ async function readColumns(file: string, inputNames: readonly string[], outputNa
 /** The numeric outputs that hold at least one value in the file (null-only columns say nothing). */
 async function outputsWithValues(file: string): Promise<string[]> {
   const seen = new Set<string>();
-  for await (const batch of readIpcBatches(file)) {
+  for await (const batch of readTableBatches(file)) {
     for (const n of RESULT_NUMERIC_NAMES) {
       if (seen.has(n)) continue;
       const col = batch.getChild(n);
@@ -83,7 +89,7 @@ async function outputsWithValues(file: string): Promise<string[]> {
 }
 
 export async function analyzeResultsFile(file: string, options: SensitivityFileOptions = {}): Promise<SensitivityReport> {
-  const meta = readResultsMeta(await readIpcSchema(file));
+  const meta = readResultsMeta(await readTableSchema(file));
   if (meta.rowStart !== 0 || meta.rowEnd !== meta.pointCount) {
     throw new InputError(
       `${file}: holds rows ${meta.rowStart}-${meta.rowEnd} of ${meta.pointCount} (shard ${meta.shard}); sensitivity needs the whole sweep: merge the shards first (meltsweep merge)`,

@@ -1,5 +1,6 @@
 /** The message that crosses the worker boundary: a sweep and a contiguous index range. */
 import type { SweepSpec } from '../spec/types.js';
+import type { ProfileGrid } from './profile-grid.js';
 
 export interface ChunkTask {
   /** identifies the spec so a worker builds its plan and parameters once */
@@ -7,4 +8,6 @@ export interface ChunkTask {
   readonly spec: SweepSpec;
   readonly start: number;
   readonly end: number;
+  /** sample every column on this pressure grid (the profile table); absent: no profiles */
+  readonly profiles?: ProfileGrid;
 }

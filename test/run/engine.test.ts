@@ -127,7 +127,8 @@ describe('worker faults', () => {
 
   /** Run the test sweep with the fault-injecting worker: `kind` strikes the chunk starting at `start`. */
   async function runWithFault(kind: string, start: number, name: string) {
-    process.env.FAULT_DIR = tmpDir(`fault-${kind}`);
+    const faultDir = tmpDir(`fault-${kind}`);
+    process.env.FAULT_DIR = faultDir;
     process.env.FAULT_START = String(start);
     process.env.FAULT_KIND = kind;
     try {
@@ -136,6 +137,7 @@ describe('worker faults', () => {
       return { summary, cols: tableColumns(readTable(out)) };
     } finally {
       delete process.env.FAULT_DIR;
+      fs.rmSync(faultDir, { recursive: true, force: true });
     }
   }
 

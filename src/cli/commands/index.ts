@@ -5,6 +5,9 @@ import { registerMerge } from './merge.js';
 import { registerPlan } from './plan.js';
 import { registerColumn } from './column.js';
 import { registerSensitivity } from './sensitivity.js';
+import { registerPlot } from './plot.js';
+import { registerReport } from './report.js';
+import { registerInspect } from './inspect.js';
 
 /** Every command, in the order `meltsweep --help` lists them. */
 export function registerCommands(program: Command): void {
@@ -14,4 +17,7 @@ export function registerCommands(program: Command): void {
   registerMerge(program);
   registerColumn(program);
   registerSensitivity(program);
+  registerPlot(program);
+  registerReport(program);
+  registerInspect(program);
 }

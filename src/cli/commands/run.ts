@@ -1,5 +1,7 @@
 import type { Command } from 'commander';
 import { InputError } from '../../errors.js';
+import { OUTPUT_FORMATS, parseOutputFormat, type OutputFormat } from '../../io/output-format.js';
+import { formatProfileGrid, parseProfileGrid, type ProfileGrid } from '../../run/profile-grid.js';
 import { loadSweepFile } from '../../spec/index.js';
 import { parseShardArg } from '../../plan/index.js';
 import { runSweep, type RunSummary } from '../../run/run-sweep.js';
@@ -18,6 +20,10 @@ export interface RunCommandOptions {
   readonly quiet?: boolean;
   readonly summary?: boolean;
   readonly commitSeconds?: number;
+  /** table format (default: from the output's extension, else arrow) */
+  readonly format?: OutputFormat;
+  /** write the profile table sampled on this grid */
+  readonly profiles?: ProfileGrid;
 }
 
 /** Exit code of an interrupted run (128 + SIGINT), the shell convention. */
@@ -55,6 +61,8 @@ export async function executeRun(sweepPath: string, o: RunCommandOptions): Promi
       shard,
       signal: controller.signal,
       segmentSeconds: o.commitSeconds,
+      format: o.format,
+      profiles: o.profiles,
       progress: o.quiet ? null : createProgress({ totalRows: range.end - range.start, startRows: 0, stream: process.stderr }),
     });
     return summary;
@@ -75,6 +83,7 @@ export async function reportRun(summary: RunSummary, o: RunCommandOptions, resum
     return;
   }
   process.stdout.write(`${formatRunSummary(summary)}\n`);
+  if (summary.profilesPath !== null) process.stdout.write(`profiles: ${summary.profilesPath}\n`);
   if (o.summary !== false) process.stdout.write(`\n${await summaryAfterRun(summary.outPath)}\n`);
 }
 
@@ -83,7 +92,9 @@ export function registerRun(program: Command): void {
     .command('run')
     .description('run a sweep file and write one Arrow table with a row per scenario')
     .argument('<sweep>', 'sweep file (YAML or JSON)')
-    .requiredOption('-o, --output <file>', 'output Arrow IPC file')
+    .requiredOption('-o, --output <file>', 'output table (.arrow/.feather/.ipc: Arrow IPC, .parquet: Parquet, .csv: CSV; other names: see --format)')
+    .option('--format <format>', `table format: ${OUTPUT_FORMATS.join(', ')} (default: from the output's extension, else arrow)`, parseOutputFormat)
+    .option('--profiles <from:to:step>', 'also write OUTPUT.profiles.EXT: every column sampled on this pressure grid in GPa, e.g. 0:8:0.05', parseProfileGrid)
     .option('-w, --workers <n>', 'worker threads (default: all available cores)', parseWorkers)
     .option('--resume', 'finish an interrupted run of the same sweep')
     .option('--force', 'replace an existing output and discard a partial run')
@@ -96,7 +107,8 @@ export function registerRun(program: Command): void {
     .action(async (sweep: string, o: RunCommandOptions) => {
       if (o.resume && o.force) throw new InputError('--resume and --force: choose one (resume keeps finished rows, force starts over)');
       const summary = await executeRun(sweep, o);
-      const again = `meltsweep run ${sweep} -o ${o.output}${o.shard ? ` --shard ${o.shard}` : ''} --resume`;
+      const extra = [o.shard ? ` --shard ${o.shard}` : '', o.format ? ` --format ${o.format}` : '', o.profiles ? ` --profiles ${formatProfileGrid(o.profiles)}` : ''].join('');
+      const again = `meltsweep run ${sweep} -o ${o.output}${extra} --resume`;
       await reportRun(summary, o, again);
     });
 }

@@ -1,7 +1,7 @@
 import type { Command } from 'commander';
 import { formatSensitivitySummary } from '../../analyze/index.js';
 import { readResultsMeta } from '../../io/arrow-schema.js';
-import { readIpcSchema } from '../../io/ipc-file.js';
+import { readTableSchema } from '../../io/table-reader.js';
 import { analyzeResultsFile, AUTO_SUMMARY_MAX_ROWS, sensitivityPathFor, writeSensitivityTable } from '../../run/sensitivity-file.js';
 import { parseNumberOption } from '../options.js';
 
@@ -11,7 +11,7 @@ export async function summarizeResults(
   o: { outputs?: string[]; resamples?: number; seed?: number; output?: string } = {},
 ): Promise<string> {
   const report = await analyzeResultsFile(file, o);
-  const meta = readResultsMeta(await readIpcSchema(file));
+  const meta = readResultsMeta(await readTableSchema(file));
   const out = o.output ?? sensitivityPathFor(file);
   writeSensitivityTable(report, out, { 'meltsweep.source': file, 'meltsweep.sweep_hash': meta.sweepHash });
   return `${formatSensitivitySummary(report)}\nsensitivity table: ${out}`;
@@ -19,7 +19,7 @@ export async function summarizeResults(
 
 /** The summary step after `meltsweep run`: skipped with a note for shards and very large tables. */
 export async function summaryAfterRun(file: string): Promise<string> {
-  const meta = readResultsMeta(await readIpcSchema(file));
+  const meta = readResultsMeta(await readTableSchema(file));
   if (meta.rowStart !== 0 || meta.rowEnd !== meta.pointCount) {
     return 'sensitivity: skipped for a shard (merge the shards, then run meltsweep sensitivity on the merged file)';
   }

@@ -1,0 +1,56 @@
+/**
+ * `meltsweep report`: one self-contained HTML file about a results file (run metadata, maps,
+ * sensitivity pictures, representative columns). Parse, call, write: the page is src/report.
+ */
+import type { Command } from 'commander';
+import { InputError } from '../../errors.js';
+import { parseAtOption } from '../../report/report-options.js';
+import { parseNumberOption } from '../options.js';
+
+interface ReportCliOptions {
+  output?: string;
+  outputs?: string;
+  x?: string;
+  y?: string;
+  at?: string;
+  resamples?: number;
+  seed?: number;
+  title?: string;
+}
+
+/** `r7.arrow` -> `r7.report.html`. */
+export function reportPathFor(resultsPath: string): string {
+  return `${resultsPath.replace(/\.arrow$/i, '')}.report.html`;
+}
+
+/** Register `meltsweep report`. */
+export function registerReport(program: Command): void {
+  program
+    .command('report')
+    .description('write a self-contained HTML report of a results file: run metadata, maps over two inputs, sensitivity bars and curves, representative columns')
+    .argument('<results>', 'results file written by meltsweep run or merge')
+    .option('-o, --output <file.html>', 'the HTML file to write (default: RESULTS.report.html)')
+    .option('--outputs <list>', 'comma-separated outputs to draw (default: crust_km, f_max, onset_depth_km, h2o_melt_wt_pct, melt_flux_kg_m2_yr where they hold values)')
+    .option('--x <input>', 'swept input on the horizontal axis of the maps (default: the first swept input)')
+    .option('--y <input>', 'swept input on the vertical axis of the maps (default: the next swept input)')
+    .option('--at <name=value,...>', 'grid designs: values of the other swept inputs for the map slices (default: the middle grid value; snapped to the nearest grid value)')
+    .option('--resamples <n>', 'bootstrap resamples for saltelli designs (default 500)', (v: string) => parseNumberOption('--resamples', v, 10, 100000, 'resamples'))
+    .option('--seed <n>', 'bootstrap seed (default 1)', (v: string) => parseNumberOption('--seed', v, 0, 2 ** 31, ''))
+    .option('--title <text>', 'page title (default: "meltsweep report: <sweep name>")')
+    .action(async (results: string, o: ReportCliOptions) => {
+      const out = o.output ?? reportPathFor(results);
+      if (!/\.html?$/i.test(out)) throw new InputError(`-o: ${JSON.stringify(out)} is not allowed; the report is an HTML file: give a name ending in .html`);
+      // the plotting libraries load only when a report is written (they add ~0.3 s to start-up)
+      const { writeHtmlReport } = await import('../../report/html-report.js');
+      const report = await writeHtmlReport(results, out, {
+        outputs: o.outputs === undefined ? undefined : o.outputs.split(',').map((s) => s.trim()).filter(Boolean),
+        x: o.x,
+        y: o.y,
+        at: o.at === undefined ? undefined : parseAtOption(o.at),
+        resamples: o.resamples,
+        seed: o.seed,
+        title: o.title,
+      });
+      process.stdout.write(`report: ${out} (${report.plots.length} pictures)\n`);
+    });
+}

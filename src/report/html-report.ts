@@ -1,0 +1,168 @@
+/**
+ * The self-contained HTML report of a results file: run metadata, a heat map per output over two
+ * swept inputs, main-effect curves and Sobol index bars per output, and a column diagram of
+ * representative scenarios. Every picture is an inline SVG rendered in Node; the page needs no
+ * network access and runs no script.
+ */
+import fs from 'node:fs';
+import path from 'node:path';
+import type { SensitivityReport } from '../analyze/types.js';
+import { InputError } from '../errors.js';
+import { writeFileAtomic } from '../io/ipc-file.js';
+import { defaultModel } from '../physics/column.js';
+import type { ModelOptions } from '../physics/types.js';
+import { analyzeResultsFile } from '../run/sensitivity-file.js';
+import { columnDiagramSpec } from './column-diagram.js';
+import { columnDiagramData, scenarioLabels, type DiagramScenario } from './column-diagram-data.js';
+import { htmlFigure, htmlPage, escapeHtml } from './html.js';
+import { fieldInfo, formatNumber } from './labels.js';
+import { renderSvg, type PlotSpec } from './render.js';
+import { resolveReportOptions, type ReportOptions } from './report-options.js';
+import { metadataSection } from './report-metadata.js';
+import { readResultsColumns, readResultsInfo, type ResultsColumns } from './results-columns.js';
+import { mainEffectsSpec, sensitivityBarsSpec } from './sensitivity-bars.js';
+import { binnedMap, gridSliceMap, mapSubtitle, sweepMapSpec } from './sweep-map.js';
+
+/** Kinds of picture in a report, as in each figure's data-plot attribute. */
+export type ReportPlotKind = 'map' | 'main-effects' | 'indices' | 'column';
+
+/** A built report. */
+export interface HtmlReport {
+  readonly html: string;
+  /** the pictures, in page order */
+  readonly plots: readonly { readonly kind: ReportPlotKind; readonly output: string | null }[];
+  /** what was left out or approximated, in plain words (also shown on the page) */
+  readonly notes: readonly string[];
+  /** warnings of the plotting libraries (none expected) */
+  readonly warnings: readonly string[];
+}
+
+/** Representative scenarios: the ok rows with the smallest, median and largest value of `output`. */
+export function representativeRows(table: ResultsColumns, output: string): { readonly which: string; readonly row: number }[] {
+  const col = table.outputs[output];
+  const ok: number[] = [];
+  for (let r = 0; r < table.rows; r++) if (table.status[r] === 0 && Number.isFinite(col[r])) ok.push(r);
+  if (ok.length === 0) return [];
+  ok.sort((a, b) => col[a] - col[b] || a - b);
+  const picks = [
+    { which: 'min', row: ok[0] },
+    { which: 'median', row: ok[Math.floor((ok.length - 1) / 2)] },
+    { which: 'max', row: ok[ok.length - 1] },
+  ];
+  return picks.filter((p, i) => picks.findIndex((q) => q.row === p.row) === i);
+}
+
+/** The model a sweep's rows were computed with (parameters as stored in the file). */
+function sweepModel(spec: { readonly model: { readonly thermal: ModelOptions['thermal']; readonly water: ModelOptions['water']; readonly step_gpa: number } }, params: ModelOptions['params']): ModelOptions {
+  return defaultModel({ thermal: spec.model.thermal, water: spec.model.water, stepGpa: spec.model.step_gpa, params });
+}
+
+/**
+ * Build the report of a results file (a whole sweep; for a shard the sensitivity section is left out).
+ * @throws InputError for a missing or foreign file and for bad options (see resolveReportOptions)
+ */
+export async function buildHtmlReport(file: string, options: ReportOptions = {}): Promise<HtmlReport> {
+  const info = await readResultsInfo(file);
+  const { meta, spec } = info;
+  const opts = resolveReportOptions(options, spec, info.outputsWithValues, file);
+  const table = await readResultsColumns(file, opts.outputs, meta.rowEnd - meta.rowStart);
+  const notes = [...opts.notes];
+  const analysisNotes: string[] = [];
+  const warnings: string[] = [];
+  const plots: { kind: ReportPlotKind; output: string | null }[] = [];
+  let figureCount = 0;
+  const figure = async (kind: ReportPlotKind, output: string | null, plot: PlotSpec, caption: string): Promise<string> => {
+    const r = await renderSvg(plot, { idPrefix: `p${++figureCount}-` });
+    warnings.push(...r.warnings);
+    plots.push({ kind, output });
+    return htmlFigure(kind, r.svg, caption, output === null ? {} : { output });
+  };
+
+  // maps
+  const maps: string[] = [];
+  if (opts.x !== null && opts.y !== null) {
+    for (const output of opts.outputs) {
+      const map = spec.design.kind === 'grid' ? gridSliceMap(table, spec, output, opts.x, opts.y, opts.at) : binnedMap(table, spec, output, opts.x, opts.y);
+      maps.push(await figure('map', output, sweepMapSpec(map), `${output} over ${opts.x} and ${opts.y}: ${mapSubtitle(map)}. Grey cells: no value.`));
+    }
+  }
+
+  // sensitivity
+  const sens: string[] = [];
+  let report: SensitivityReport | null = null;
+  if (meta.rowStart !== 0 || meta.rowEnd !== meta.pointCount) {
+    notes.push(`this file is shard ${meta.shard} (rows ${meta.rowStart}-${meta.rowEnd} of ${meta.pointCount}): sensitivity needs the whole sweep, merge the shards first`);
+  } else if (opts.outputs.length > 0 && spec.axes.length > 0) {
+    report = await analyzeResultsFile(file, { outputs: opts.outputs, resamples: options.resamples, seed: options.seed });
+    analysisNotes.push(...report.notes);
+    const logInputs = new Set<string>(spec.axes.filter((a) => a.scale === 'log').map((a) => a.name));
+    for (const output of opts.outputs) {
+      const bars = sensitivityBarsSpec(report.records, output, report.inputs);
+      const curves = mainEffectsSpec(report.mainEffects, output, logInputs);
+      const pair: string[] = [];
+      const hasTotal = report.records.some((r) => r.output === output && r.measure === 'ST' && r.value !== null);
+      const what = hasTotal ? 'First-order (S1) and total (ST) Sobol indices' : 'First-order Sobol indices (S1; total indices need a saltelli design or a grid)';
+      if (bars !== null) pair.push(await figure('indices', output, bars, `${what} of ${output}, ${report.design} design.`));
+      if (curves !== null) pair.push(await figure('main-effects', output, curves, `Mean of ${output} along each swept input.`));
+      if (pair.length > 0) sens.push(`<h3>${escapeHtml(output)}</h3>\n<div class="plots pair">\n${pair.join('\n')}\n</div>`);
+    }
+  }
+
+  // representative columns
+  const columns: string[] = [];
+  const repOutput = opts.outputs.includes('crust_km') ? 'crust_km' : opts.outputs[0];
+  if (repOutput !== undefined) {
+    const picks = representativeRows(table, repOutput);
+    if (picks.length > 0) {
+      const scenarios = picks.map((p) => ({
+        tp_c: table.inputs.tp_c[p.row],
+        water_ppm: table.inputs.water_ppm[p.row],
+        lid_km: table.inputs.lid_km[p.row],
+        upwelling_mm_yr: table.inputs.upwelling_mm_yr[p.row],
+      }));
+      const auto = scenarioLabels(scenarios);
+      const unit = fieldInfo(repOutput).unit;
+      const items: DiagramScenario[] = picks.map((p, k) => ({
+        scenario: scenarios[k],
+        label: `${p.which} ${repOutput} ${formatNumber(table.outputs[repOutput][p.row])} ${unit}: ${auto[k]}`,
+      }));
+      const data = columnDiagramData(items, sweepModel(spec, meta.params));
+      const plot = columnDiagramSpec(data, { title: `Representative columns`, subtitle: `smallest, median and largest ${repOutput} among ok rows` });
+      columns.push(await figure('column', repOutput, plot, `Temperature and melt fraction against depth for the ok rows with the smallest, median and largest ${repOutput}. Thin line: solid adiabat; thick: melting path; dashed: conductive profile; shaded: lid and melting interval.`));
+    } else {
+      notes.push(`no ok row has a value of ${repOutput}: no representative columns`);
+    }
+  }
+
+  const title = options.title ?? `meltsweep report: ${spec.name}`;
+  const section = (heading: string, content: string): string => `<section class="card">\n<h2>${escapeHtml(heading)}</h2>\n${content}\n</section>`;
+  const body = [
+    `<header class="top"><h1>${escapeHtml(title)}</h1><p class="meta">${escapeHtml(path.basename(file))} · meltsweep ${escapeHtml(meta.toolVersion)} · sweep ${escapeHtml(meta.sweepHash.slice(0, 12))}</p></header>`,
+    section('Run', metadataSection(meta, spec, table)),
+    maps.length > 0 ? section(`Maps over ${opts.x} and ${opts.y}`, `<div class="plots">\n${maps.join('\n')}\n</div>`) : '',
+    sens.length > 0 ? section('Sensitivity', sens.join('\n')) : '',
+    columns.length > 0 ? section('Representative columns', `<div class="plots wide">\n${columns.join('\n')}\n</div>`) : '',
+    notes.length + analysisNotes.length > 0 ? section('Notes', notesHtml(notes, analysisNotes)) : '',
+    `<footer>Model estimates from a one-dimensional parameterised melting model, not observations. Not a tool for volcanic hazard assessment.</footer>`,
+  ].filter(Boolean);
+  return { html: htmlPage(title, body.join('\n')), plots, notes: [...notes, ...analysisNotes], warnings };
+}
+
+function notesHtml(notes: readonly string[], analysisNotes: readonly string[]): string {
+  const list = (xs: readonly string[]): string => `<ul class="notes">${xs.map((n) => `<li>${escapeHtml(n)}</li>`).join('')}</ul>`;
+  const own = notes.length > 0 ? list(notes) : '';
+  const analysis = analysisNotes.length > 0 ? `<details><summary>${escapeHtml(`Notes of the sensitivity analysis (${analysisNotes.length})`)}</summary>${list(analysisNotes)}</details>` : '';
+  return own + analysis;
+}
+
+/**
+ * Build the report and write it atomically to outPath.
+ * @throws InputError when the output folder does not exist
+ */
+export async function writeHtmlReport(file: string, outPath: string, options: ReportOptions = {}): Promise<HtmlReport> {
+  const dir = path.dirname(path.resolve(outPath));
+  if (!fs.existsSync(dir)) throw new InputError(`-o: folder ${dir} does not exist`);
+  const report = await buildHtmlReport(file, options);
+  writeFileAtomic(outPath, report.html);
+  return report;
+}

@@ -1,0 +1,75 @@
+/**
+ * Axis titles, legend titles and scenario labels for the pictures, all derived from the field
+ * registry (src/physics/fields.ts): a unit is never typed here, it is looked up.
+ */
+import { INPUT_FIELDS, PROFILE_FIELDS, RESULT_NUMERIC_FIELDS, type FieldInfo, type InputName } from '../physics/fields.js';
+
+/** Every field a picture can show: scenario inputs, numeric outputs and profile columns. */
+const REGISTRY: readonly FieldInfo[] = [...INPUT_FIELDS, ...RESULT_NUMERIC_FIELDS];
+
+/** A registry entry by name: inputs and outputs first, then profile columns. @throws Error for an unknown name */
+export function fieldInfo(name: string): FieldInfo {
+  const f = REGISTRY.find((x) => x.name === name) ?? PROFILE_FIELDS.find((x) => x.name === name);
+  if (f === undefined) throw new Error(`report: ${name} is not in the field registry`);
+  return f;
+}
+
+/** A profile column's registry entry (profile names such as h2o_melt_wt_pct also name outputs). */
+export function profileFieldInfo(name: (typeof PROFILE_FIELDS)[number]['name']): FieldInfo {
+  return PROFILE_FIELDS.find((x) => x.name === name) as FieldInfo;
+}
+
+/**
+ * The short form of a registry description: the text before the first comma, semicolon or
+ * parenthesis, first letter capitalised ("crust thickness of the passive melting regime, ..." ->
+ * "Crust thickness of the passive melting regime").
+ */
+export function shortDescription(info: FieldInfo): string {
+  const cut = info.description.split(/,|;| \(/)[0].trim();
+  return cut.charAt(0).toUpperCase() + cut.slice(1);
+}
+
+/** An axis title with the unit from the registry: "Mantle potential temperature (degC)". */
+export function axisTitle(info: FieldInfo): string {
+  return info.unit === '' ? shortDescription(info) : `${shortDescription(info)} (${info.unit})`;
+}
+
+/** axisTitle of a registry field by name. */
+export function axisTitleOf(name: string): string {
+  return axisTitle(fieldInfo(name));
+}
+
+/** A compact axis title for small panels: the column name with its unit, "tp_c (degC)". */
+export function compactTitleOf(name: string): string {
+  const unit = fieldInfo(name).unit;
+  return unit === '' ? name : `${name} (${unit})`;
+}
+
+/** Short names of the scenario inputs for legends (the trade's symbols; units come from the registry). */
+const INPUT_SYMBOLS: Readonly<Record<InputName, string>> = {
+  tp_c: 'Tp',
+  water_ppm: 'water',
+  lid_km: 'lid',
+  upwelling_mm_yr: 'upwelling',
+};
+
+/** A compact number for labels: up to 4 significant digits, no trailing zeros. */
+export function formatNumber(v: number): string {
+  if (!Number.isFinite(v)) return String(v);
+  if (v === 0) return '0';
+  const a = Math.abs(v);
+  if (a >= 1e5 || a < 1e-3) return v.toExponential(2);
+  return String(Number(v.toPrecision(4)));
+}
+
+/** "Tp 1350 degC" for one input value (unit from the registry). */
+export function inputValueLabel(name: InputName, value: number): string {
+  const unit = fieldInfo(name).unit;
+  return `${INPUT_SYMBOLS[name]} ${formatNumber(value)}${unit === '' ? '' : ` ${unit}`}`;
+}
+
+/** "lid_km = 10 km" for a fixed value of a swept input (unit from the registry). */
+export function fixedValueLabel(name: string, value: number): string {
+  const unit = fieldInfo(name).unit;
+  return `${name} = ${formatNumber(value)}${unit === '' ? '' : ` ${unit}`}`;
+}

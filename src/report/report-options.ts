@@ -1,0 +1,137 @@
+/**
+ * Options of the HTML report, checked against the results file they apply to. Every problem is an
+ * InputError naming the option, the value and what is allowed.
+ */
+import { InputError } from '../errors.js';
+import { INPUT_NAMES, RESULT_NUMERIC_NAMES, type InputName } from '../physics/fields.js';
+import type { SweepSpec } from '../spec/types.js';
+import { fieldInfo, formatNumber } from './labels.js';
+
+/** What the report shows. Every field is optional; see resolveReportOptions for the defaults. */
+export interface ReportOptions {
+  /** outputs to draw (default: DEFAULT_REPORT_OUTPUTS that hold values) */
+  readonly outputs?: readonly string[];
+  /** swept input on the maps' horizontal axis (default: the first swept input) */
+  readonly x?: string;
+  /** swept input on the maps' vertical axis (default: the first other swept input) */
+  readonly y?: string;
+  /** values of the other swept inputs for grid slices (default: each axis's middle value) */
+  readonly at?: Readonly<Record<string, number>>;
+  /** bootstrap resamples of the sensitivity analysis (default: the analysis default) */
+  readonly resamples?: number;
+  /** bootstrap seed (default: the analysis default) */
+  readonly seed?: number;
+  /** page title (default: "meltsweep report: <sweep name>") */
+  readonly title?: string;
+}
+
+/** Outputs a report shows by default, where they hold values. */
+export const DEFAULT_REPORT_OUTPUTS: readonly string[] = ['crust_km', 'f_max', 'onset_depth_km', 'h2o_melt_wt_pct', 'melt_flux_kg_m2_yr'];
+
+/** Options with defaults filled in and checked. */
+export interface ResolvedReportOptions {
+  readonly outputs: readonly string[];
+  /** null when the sweep has no swept input */
+  readonly x: InputName | null;
+  /** null when the sweep has fewer than two swept inputs */
+  readonly y: InputName | null;
+  /** slice values of the other swept inputs (grid designs) */
+  readonly at: Partial<Record<InputName, number>>;
+  /** what the defaults or the design changed, in plain words */
+  readonly notes: readonly string[];
+}
+
+/**
+ * Parse `name=value[,name=value...]` (the --at option) into numbers by name.
+ * @throws InputError naming the malformed part
+ */
+export function parseAtOption(raw: string): Record<string, number> {
+  const out: Record<string, number> = {};
+  for (const part of raw.split(',').map((s) => s.trim()).filter(Boolean)) {
+    const m = /^([A-Za-z_][A-Za-z0-9_]*)\s*=\s*(.+)$/.exec(part);
+    const value = m === null ? Number.NaN : Number(m[2]);
+    if (m === null || !Number.isFinite(value)) {
+      throw new InputError(`--at: ${JSON.stringify(part)} is not allowed; give name=value pairs of swept inputs, e.g. lid_km=10,upwelling_mm_yr=20`);
+    }
+    out[m[1]] = value;
+  }
+  return out;
+}
+
+function sweptCheck(option: string, name: string, spec: SweepSpec): InputName {
+  const swept = spec.axes.map((a) => a.name);
+  if ((swept as readonly string[]).includes(name)) return name as InputName;
+  const allowed = swept.length > 0 ? `swept inputs: ${swept.join(', ')}` : 'this sweep has no swept input';
+  if ((INPUT_NAMES as readonly string[]).includes(name)) {
+    const v = spec.fixed[name as InputName];
+    const held = v === undefined ? 'not given' : `held at ${formatNumber(v)} ${fieldInfo(name).unit}`;
+    throw new InputError(`${option}: ${name} is not swept in this sweep (${held}); ${allowed}`);
+  }
+  throw new InputError(`${option}: ${JSON.stringify(name)} is not an input; ${allowed}`);
+}
+
+/**
+ * Fill in the defaults and check the options against a results file's sweep and outputs.
+ * @param outputsWithValues numeric outputs holding at least one value in the file
+ * @throws InputError for an unknown or empty output, an input that is not swept, the same input on
+ *   both axes, or an --at value outside the swept range
+ */
+export function resolveReportOptions(o: ReportOptions, spec: SweepSpec, outputsWithValues: readonly string[], file: string): ResolvedReportOptions {
+  const notes: string[] = [];
+  const problems: string[] = [];
+  let outputs: string[];
+  if (o.outputs !== undefined) {
+    outputs = [];
+    for (const name of o.outputs) {
+      if (!(RESULT_NUMERIC_NAMES as readonly string[]).includes(name)) problems.push(`--outputs: ${JSON.stringify(name)} is not an output column; allowed: ${RESULT_NUMERIC_NAMES.join(', ')}`);
+      else if (!outputsWithValues.includes(name)) problems.push(`--outputs: ${name} holds no values in ${file}; outputs with values: ${outputsWithValues.join(', ') || 'none'}`);
+      else if (!outputs.includes(name)) outputs.push(name);
+    }
+    if (o.outputs.length === 0) problems.push(`--outputs: the list is empty; allowed: ${RESULT_NUMERIC_NAMES.join(', ')}`);
+  } else {
+    outputs = DEFAULT_REPORT_OUTPUTS.filter((n) => outputsWithValues.includes(n));
+    const dropped = DEFAULT_REPORT_OUTPUTS.filter((n) => !outputsWithValues.includes(n));
+    if (dropped.length > 0) notes.push(`left out for holding no values: ${dropped.join(', ')}`);
+  }
+
+  const swept = spec.axes.map((a) => a.name);
+  const attempt = (fn: () => InputName): InputName | null => {
+    try {
+      return fn();
+    } catch (err) {
+      if (err instanceof InputError) problems.push(...err.problems);
+      else throw err;
+      return null;
+    }
+  };
+  let x: InputName | null = o.x !== undefined ? attempt(() => sweptCheck('--x', o.x as string, spec)) : (swept[0] ?? null);
+  let y: InputName | null = o.y !== undefined ? attempt(() => sweptCheck('--y', o.y as string, spec)) : (swept.find((n) => n !== x) ?? null);
+  if (o.x === undefined && y !== null && x === y) x = swept.find((n) => n !== y) ?? null;
+  if (x !== null && x === y) {
+    problems.push(`--x and --y: both are ${x}; choose two different swept inputs (${swept.join(', ')})`);
+    y = null;
+  }
+  if (swept.length === 1 && x !== null) notes.push(`one swept input (${x}): no maps (they need two); the main-effect curves show each output along it`);
+
+  const at: Partial<Record<InputName, number>> = {};
+  for (const [name, value] of Object.entries(o.at ?? {})) {
+    const input = attempt(() => sweptCheck('--at', name, spec));
+    if (input === null) continue;
+    if (input === x || input === y) {
+      problems.push(`--at: ${name} is on the ${input === x ? '--x' : '--y'} axis; --at sets the other swept inputs (${swept.filter((n) => n !== x && n !== y).join(', ') || 'none'})`);
+      continue;
+    }
+    const axis = spec.axes.find((a) => a.name === input)!;
+    const unit = fieldInfo(input).unit;
+    if (value < axis.min || value > axis.max) {
+      problems.push(`--at: ${name}=${formatNumber(value)} ${unit} is outside the swept range ${formatNumber(axis.min)}-${formatNumber(axis.max)} ${unit}`);
+      continue;
+    }
+    at[input] = value;
+  }
+  if (problems.length > 0) throw new InputError(problems);
+  if (spec.design.kind !== 'grid' && Object.keys(at).length > 0) {
+    notes.push(`--at applies to grid designs; in this ${spec.design.kind} design each map cell averages over the other inputs`);
+  }
+  return { outputs, x, y, at, notes };
+}

@@ -1,0 +1,93 @@
+/**
+ * A results file read into plain typed columns for the pictures: the four inputs, the chosen
+ * numeric outputs (NaN for null) and the status of every row, batch by batch (memory: 8 bytes per
+ * value and column; nothing else is kept).
+ */
+import type * as arrow from 'apache-arrow';
+import fs from 'node:fs';
+import { InputError } from '../errors.js';
+import { readResultsMeta, type ResultsTableMeta } from '../io/arrow-schema.js';
+import { readIpcBatches, readIpcSchema } from '../io/ipc-file.js';
+import { INPUT_NAMES, RESULT_NUMERIC_NAMES, type InputName } from '../physics/fields.js';
+import { COLUMN_STATUSES, type ColumnStatus } from '../physics/types.js';
+import type { SweepSpec } from '../spec/types.js';
+
+/** Columns of a results file, in row order. */
+export interface ResultsColumns {
+  readonly rows: number;
+  readonly inputs: Readonly<Record<InputName, Float64Array>>;
+  /** the requested outputs; NaN where the value is null */
+  readonly outputs: Readonly<Record<string, Float64Array>>;
+  /** index into COLUMN_STATUSES of each row */
+  readonly status: Uint8Array;
+  readonly statusCounts: Readonly<Record<ColumnStatus, number>>;
+}
+
+/** A results file's metadata, with the sweep it was run from. */
+export interface ResultsFileInfo {
+  readonly meta: ResultsTableMeta;
+  readonly spec: SweepSpec;
+  /** numeric outputs that hold at least one value */
+  readonly outputsWithValues: readonly string[];
+}
+
+/** @throws InputError when the file is missing or is not a meltsweep results table */
+export async function readResultsInfo(file: string, argName = 'RESULTS'): Promise<ResultsFileInfo> {
+  if (!fs.existsSync(file) || !fs.statSync(file).isFile()) throw new InputError(`${argName}: ${file} does not exist or is not a file; give a results file written by meltsweep run or merge`);
+  let meta: ResultsTableMeta & { sweep: unknown };
+  try {
+    meta = readResultsMeta(await readIpcSchema(file));
+  } catch (err) {
+    throw new InputError(`${argName}: ${file} is not a meltsweep results table (${err instanceof Error ? err.message : String(err)})`);
+  }
+  const seen = new Set<string>();
+  for await (const batch of readIpcBatches(file)) {
+    for (const n of RESULT_NUMERIC_NAMES) {
+      const col = batch.getChild(n);
+      if (col !== null && col.nullCount < col.length) seen.add(n);
+    }
+    if (seen.size === RESULT_NUMERIC_NAMES.length) break;
+  }
+  return { meta, spec: meta.sweep as SweepSpec, outputsWithValues: RESULT_NUMERIC_NAMES.filter((n) => seen.has(n)) };
+}
+
+function copyFloat(target: Float64Array, offset: number, vector: arrow.Vector | null, n: number): void {
+  if (vector === null) {
+    target.fill(NaN, offset, offset + n);
+    return;
+  }
+  let at = offset;
+  for (const data of vector.data) {
+    const values = data.values as Float64Array;
+    for (let i = 0; i < data.length; i++) target[at + i] = data.getValid(i) ? values[data.offset + i] : NaN;
+    at += data.length;
+  }
+}
+
+/**
+ * Read the inputs, the given outputs and the status column of a results file, batch by batch.
+ * @param rows the row count from the file's metadata (rowEnd - rowStart)
+ * @throws InputError when the file holds a different number of rows
+ */
+export async function readResultsColumns(file: string, outputs: readonly string[], rows: number): Promise<ResultsColumns> {
+  const inputs = Object.fromEntries(INPUT_NAMES.map((n) => [n, new Float64Array(rows)])) as Record<InputName, Float64Array>;
+  const outs = Object.fromEntries(outputs.map((n) => [n, new Float64Array(rows)]));
+  const status = new Uint8Array(rows);
+  const statusCounts = Object.fromEntries(COLUMN_STATUSES.map((s) => [s, 0])) as Record<ColumnStatus, number>;
+  let offset = 0;
+  for await (const batch of readIpcBatches(file)) {
+    if (offset + batch.numRows > rows) throw new InputError(`${file}: holds more rows than its metadata says (${rows})`);
+    for (const n of INPUT_NAMES) copyFloat(inputs[n], offset, batch.getChild(n), batch.numRows);
+    for (const n of outputs) copyFloat(outs[n], offset, batch.getChild(n), batch.numRows);
+    const col = batch.getChild('status');
+    for (let i = 0; i < batch.numRows; i++) {
+      const s = (col?.get(i) ?? 'failed') as ColumnStatus;
+      const code = COLUMN_STATUSES.indexOf(s);
+      status[offset + i] = code < 0 ? COLUMN_STATUSES.indexOf('failed') : code;
+      statusCounts[COLUMN_STATUSES[status[offset + i]]] += 1;
+    }
+    offset += batch.numRows;
+  }
+  if (offset !== rows) throw new InputError(`${file}: holds ${offset} rows, its metadata says ${rows}`);
+  return { rows, inputs, outputs: outs, status, statusCounts };
+}

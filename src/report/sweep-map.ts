@@ -1,0 +1,262 @@
+/**
+ * Sweep maps: one output over two swept inputs as a heat map.
+ * - grid designs: the slice of the grid where every other swept input sits at one of its grid
+ *   values (chosen, or the middle value); one cell per grid point, edges half-way between values
+ *   (geometric half-way on log axes);
+ * - other designs: the samples binned onto a regular 2D grid over the two inputs' ranges, each
+ *   cell the mean of the finite values in it (every other input varies inside a cell).
+ */
+import type { InputName } from '../physics/fields.js';
+import type { AxisSpec, SweepSpec } from '../spec/types.js';
+import { axisTitleOf, fixedValueLabel, formatNumber, shortDescription, fieldInfo } from './labels.js';
+import type { ResultsColumns } from './results-columns.js';
+import type { PlotSpec } from './render.js';
+import { HEATMAP_SCHEME, NO_VALUE_FILL, PAPER } from './theme.js';
+
+/** One cell of a map: its centre, its edges and its value (null: no finite value). */
+export interface MapCell {
+  readonly x: number;
+  readonly y: number;
+  readonly x0: number;
+  readonly x1: number;
+  readonly y0: number;
+  readonly y1: number;
+  readonly value: number | null;
+  /** rows behind the value */
+  readonly n: number;
+}
+
+/** A map ready to draw. */
+export interface SweepMapData {
+  readonly output: string;
+  readonly x: InputName;
+  readonly y: InputName;
+  readonly xLog: boolean;
+  readonly yLog: boolean;
+  /** 'slice': a grid slice at fixed values of the other inputs; 'binned': bin means of samples */
+  readonly mode: 'slice' | 'binned';
+  /** where the other swept inputs sit (slice mode) */
+  readonly at: readonly { readonly name: InputName; readonly value: number }[];
+  readonly cells: readonly MapCell[];
+}
+
+/** Cell edges around sorted centres: half-way between neighbours (geometric on log axes). */
+export function cellEdges(sorted: readonly number[], log: boolean): number[] {
+  const n = sorted.length;
+  const f = log ? Math.log : (v: number) => v;
+  const g = log ? Math.exp : (v: number) => v;
+  const t = sorted.map(f);
+  if (n === 1) {
+    const half = log ? Math.log(2) / 2 : Math.max(Math.abs(t[0]) * 0.05, 0.5);
+    return [g(t[0] - half), g(t[0] + half)];
+  }
+  const edges = [g(t[0] - (t[1] - t[0]) / 2)];
+  for (let i = 0; i + 1 < n; i++) edges.push(g((t[i] + t[i + 1]) / 2));
+  edges.push(g(t[n - 1] + (t[n - 1] - t[n - 2]) / 2));
+  return edges;
+}
+
+function axisOf(spec: SweepSpec, name: InputName): AxisSpec {
+  const a = spec.axes.find((x) => x.name === name);
+  if (a === undefined) throw new Error(`report: ${name} is not a swept input`);
+  return a;
+}
+
+/** The grid value nearest to v. */
+export function nearestValue(values: readonly number[], v: number): number {
+  let best = values[0];
+  for (const x of values) if (Math.abs(x - v) < Math.abs(best - v)) best = x;
+  return best;
+}
+
+/** The middle of an axis's sorted grid values (the lower middle for an even count). */
+export function middleValue(values: readonly number[]): number {
+  const s = [...values].sort((a, b) => a - b);
+  return s[Math.floor((s.length - 1) / 2)];
+}
+
+function close(a: number, b: number): boolean {
+  return Math.abs(a - b) <= 1e-9 * Math.max(1, Math.abs(a), Math.abs(b));
+}
+
+/**
+ * The slice of a grid sweep over inputs x and y with every other swept input at `at` (values are
+ * snapped to the nearest grid value; absent ones default to the middle value).
+ */
+export function gridSliceMap(table: ResultsColumns, spec: SweepSpec, output: string, x: InputName, y: InputName, at: Partial<Record<InputName, number>> = {}): SweepMapData {
+  const ax = axisOf(spec, x);
+  const ay = axisOf(spec, y);
+  const others = spec.axes.filter((a) => a.name !== x && a.name !== y).map((a) => ({ name: a.name, value: nearestValue(a.values, at[a.name] ?? middleValue(a.values)) }));
+  const xs = [...new Set(ax.values)].sort((a, b) => a - b);
+  const ys = [...new Set(ay.values)].sort((a, b) => a - b);
+  const inSlice = (r: number): boolean => others.every((o) => close(table.inputs[o.name][r], o.value));
+  if (xs.length * ys.length > MAX_MAP_CELLS) {
+    // too many grid points to draw one cell each: bin the slice instead
+    const bins = Math.floor(Math.sqrt(MAX_MAP_CELLS));
+    return { ...binnedMap(table, spec, output, x, y, Math.min(bins, Math.max(xs.length, ys.length)), inSlice), at: others };
+  }
+  const xIndex = new Map(xs.map((v, i) => [v, i]));
+  const yIndex = new Map(ys.map((v, i) => [v, i]));
+  const xe = cellEdges(xs, ax.scale === 'log');
+  const ye = cellEdges(ys, ay.scale === 'log');
+  const sum = new Float64Array(xs.length * ys.length);
+  const cnt = new Float64Array(xs.length * ys.length);
+  const col = table.outputs[output];
+  const xin = table.inputs[x];
+  const yin = table.inputs[y];
+  for (let r = 0; r < table.rows; r++) {
+    if (!Number.isFinite(col[r]) || !inSlice(r)) continue;
+    // the table holds the grid values themselves (written from the same spec)
+    const i = xIndex.get(xin[r]) ?? xs.findIndex((v) => close(v, xin[r]));
+    const j = yIndex.get(yin[r]) ?? ys.findIndex((v) => close(v, yin[r]));
+    if (i < 0 || j < 0) continue;
+    sum[j * xs.length + i] += col[r];
+    cnt[j * xs.length + i] += 1;
+  }
+  const cells: MapCell[] = [];
+  ys.forEach((yv, j) =>
+    xs.forEach((xv, i) => {
+      const k = j * xs.length + i;
+      cells.push({ x: xv, y: yv, x0: xe[i], x1: xe[i + 1], y0: ye[j], y1: ye[j + 1], value: cnt[k] > 0 ? sum[k] / cnt[k] : null, n: cnt[k] });
+    }),
+  );
+  return { output, x, y, xLog: ax.scale === 'log', yLog: ay.scale === 'log', mode: 'slice', at: others, cells };
+}
+
+/** Bins per axis for n samples: about four samples per cell, 3 to 24 bins. */
+export function defaultBins(n: number): number {
+  return Math.max(3, Math.min(24, Math.round(Math.sqrt(n / 4))));
+}
+
+/** Most cells a map draws one by one; larger grid slices are binned. */
+export const MAX_MAP_CELLS = 10_000;
+
+/**
+ * Samples of a non-grid design binned onto a regular bins x bins grid over the ranges of x and y
+ * (log-spaced on log axes); each cell holds the mean of the finite output values in it. `include`
+ * restricts the rows (default: every row).
+ */
+export function binnedMap(table: ResultsColumns, spec: SweepSpec, output: string, x: InputName, y: InputName, bins = defaultBins(table.rows), include: (row: number) => boolean = () => true): SweepMapData {
+  const ax = axisOf(spec, x);
+  const ay = axisOf(spec, y);
+  const edgesOf = (a: AxisSpec): number[] => {
+    const log = a.scale === 'log' && a.min > 0;
+    const lo = log ? Math.log(a.min) : a.min;
+    const hi = log ? Math.log(a.max) : a.max;
+    const span = hi > lo ? hi - lo : 1;
+    return Array.from({ length: bins + 1 }, (_, i) => (log ? Math.exp(lo + (span * i) / bins) : lo + (span * i) / bins));
+  };
+  const xe = edgesOf(ax);
+  const ye = edgesOf(ay);
+  const binOf = (edges: readonly number[], v: number, log: boolean): number => {
+    const lo = log ? Math.log(edges[0]) : edges[0];
+    const hi = log ? Math.log(edges[bins]) : edges[bins];
+    const t = log ? Math.log(v) : v;
+    const k = Math.floor(((t - lo) / (hi - lo || 1)) * bins);
+    return Math.min(bins - 1, Math.max(0, k));
+  };
+  const sum = new Float64Array(bins * bins);
+  const cnt = new Float64Array(bins * bins);
+  const col = table.outputs[output];
+  for (let r = 0; r < table.rows; r++) {
+    const v = col[r];
+    if (!Number.isFinite(v) || !include(r)) continue;
+    const i = binOf(xe, table.inputs[x][r], ax.scale === 'log' && ax.min > 0);
+    const j = binOf(ye, table.inputs[y][r], ay.scale === 'log' && ay.min > 0);
+    sum[j * bins + i] += v;
+    cnt[j * bins + i] += 1;
+  }
+  const cells: MapCell[] = [];
+  const mid = (e: readonly number[], i: number, log: boolean) => (log ? Math.sqrt(e[i] * e[i + 1]) : (e[i] + e[i + 1]) / 2);
+  for (let j = 0; j < bins; j++) {
+    for (let i = 0; i < bins; i++) {
+      const k = j * bins + i;
+      cells.push({
+        x: mid(xe, i, ax.scale === 'log'),
+        y: mid(ye, j, ay.scale === 'log'),
+        x0: xe[i],
+        x1: xe[i + 1],
+        y0: ye[j],
+        y1: ye[j + 1],
+        value: cnt[k] > 0 ? sum[k] / cnt[k] : null,
+        n: cnt[k],
+      });
+    }
+  }
+  return { output, x, y, xLog: ax.scale === 'log' && ax.min > 0, yLog: ay.scale === 'log' && ay.min > 0, mode: 'binned', at: [], cells };
+}
+
+/** A subtitle saying what the map shows. */
+export function mapSubtitle(map: SweepMapData): string {
+  if (map.mode === 'binned' && map.at.length > 0) return `slice at ${map.at.map((a) => fixedValueLabel(a.name, a.value)).join(', ')}; mean of the grid points in each cell`;
+  if (map.mode === 'binned') return `mean of the samples in each cell; the other inputs vary within a cell`;
+  return map.at.length === 0 ? 'every grid point' : `slice at ${map.at.map((a) => fixedValueLabel(a.name, a.value)).join(', ')}`;
+}
+
+/** Most cells that get their value written in them. */
+const MAX_LABELLED_CELLS = 64;
+
+/** The Vega-Lite spec of a heat map (viridis, grey for cells without a value). */
+export function sweepMapSpec(map: SweepMapData, options: { readonly width?: number; readonly height?: number } = {}): PlotSpec {
+  const width = options.width ?? 300;
+  const height = options.height ?? 240;
+  const withValue = map.cells.filter((c) => c.value !== null);
+  const without = map.cells.filter((c) => c.value === null);
+  const info = fieldInfo(map.output);
+  const values = withValue.map((c) => c.value as number);
+  const lo = values.length > 0 ? Math.min(...values) : 0;
+  const hi = values.length > 0 ? Math.max(...values) : 1;
+  const midpoint = (lo + hi) / 2;
+  const xEnc = { field: 'x0', type: 'quantitative' as const, title: axisTitleOf(map.x), scale: { type: map.xLog ? ('log' as const) : ('linear' as const), zero: false, nice: false }, axis: { grid: false, tickCount: 6 } };
+  const yEnc = { field: 'y0', type: 'quantitative' as const, title: axisTitleOf(map.y), scale: { type: map.yLog ? ('log' as const) : ('linear' as const), zero: false, nice: false }, axis: { grid: false, tickCount: 6 } };
+  const layers: Record<string, unknown>[] = [];
+  // empty layers are left out: an empty data set gives the scales an infinite extent
+  if (without.length > 0) {
+    layers.push({
+      name: 'no_value_cells',
+      data: { values: without },
+      mark: { type: 'rect', fill: NO_VALUE_FILL, stroke: PAPER, strokeWidth: 0.6 },
+      encoding: { x: xEnc, x2: { field: 'x1' }, y: yEnc, y2: { field: 'y1' } },
+    });
+  }
+  if (withValue.length > 0) {
+    layers.push({
+      name: 'map_cells',
+      data: { values: withValue },
+      mark: { type: 'rect', stroke: PAPER, strokeWidth: 0.6 },
+      encoding: {
+        x: xEnc,
+        x2: { field: 'x1' },
+        y: yEnc,
+        y2: { field: 'y1' },
+        color: {
+          field: 'value',
+          type: 'quantitative',
+          title: info.unit === '' ? map.output : [map.output, `(${info.unit})`],
+          scale: { scheme: HEATMAP_SCHEME, zero: false, nice: false },
+          legend: { orient: 'right', gradientLength: Math.max(120, height - 40), gradientThickness: 11, format: '.4~g' },
+        },
+      },
+    });
+  }
+  if (withValue.length > 0 && map.cells.length <= MAX_LABELLED_CELLS) {
+    layers.push({
+      data: { values: withValue.map((c) => ({ ...c, label: formatNumber(c.value as number) })) },
+      mark: { type: 'text', fontSize: 9.5, baseline: 'middle', align: 'center' },
+      encoding: {
+        x: { field: 'x', type: 'quantitative', scale: xEnc.scale },
+        y: { field: 'y', type: 'quantitative', scale: yEnc.scale },
+        text: { field: 'label', type: 'nominal' },
+        color: { condition: { test: `datum.value > ${midpoint}`, value: '#1d2733' }, value: '#ffffff' },
+      },
+    });
+  }
+  const spec = {
+    $schema: 'https://vega.github.io/schema/vega-lite/v6.json',
+    title: { text: `${shortDescription(info)}`, subtitle: mapSubtitle(map) },
+    width,
+    height,
+    layer: layers,
+  };
+  return spec as unknown as PlotSpec;
+}

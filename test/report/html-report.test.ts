@@ -1,0 +1,107 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import fs from 'node:fs';
+import path from 'node:path';
+import { InputError } from '../../src/errors.js';
+import { buildHtmlReport, writeHtmlReport } from '../../src/report/html-report.js';
+import { parseAtOption } from '../../src/report/report-options.js';
+import { tmpDir } from '../helpers.js';
+import { axisTitles, gridSweepFile, ids, markGroups, saltelliSweepFile, xmlProblem } from './helpers.js';
+
+const dir = tmpDir('report');
+afterAll(() => fs.rmSync(dir, { recursive: true, force: true }));
+
+let grid = '';
+let saltelli = '';
+beforeAll(async () => {
+  grid = await gridSweepFile(dir);
+  saltelli = await saltelliSweepFile(dir);
+});
+
+/** The SVG documents inlined in a page, by the figure's data-plot kind. */
+function figures(html: string): { kind: string; output: string | null; svg: string }[] {
+  return [...html.matchAll(/<figure class="plot" data-plot="([a-z-]+)"(?: data-output="([^"]*)")?>\s*(<svg[\s\S]*?<\/svg>)/g)].map((m) => ({ kind: m[1], output: m[2] ?? null, svg: m[3] }));
+}
+
+describe('HTML report of a grid sweep', () => {
+  it('is one well-formed, self-contained page with every picture and the run metadata', async () => {
+    const report = await buildHtmlReport(grid);
+    const html = report.html;
+    expect(xmlProblem(html)).toBeNull();
+    expect(report.warnings).toEqual([]);
+    // nothing to fetch: no external scripts, styles, images or fonts
+    expect(html).not.toMatch(/<script|<link|<img|<iframe|@import|url\(http|(src|href)="(https?:)?\/\//i);
+    // default outputs: the five of the issue (melt flux: the sweep fixes an upwelling rate)
+    const outputs = ['crust_km', 'f_max', 'onset_depth_km', 'h2o_melt_wt_pct', 'melt_flux_kg_m2_yr'];
+    const figs = figures(html);
+    expect(figs.filter((f) => f.kind === 'map').map((f) => f.output)).toEqual(outputs);
+    expect(figs.filter((f) => f.kind === 'indices').map((f) => f.output)).toEqual(outputs);
+    expect(figs.filter((f) => f.kind === 'main-effects').map((f) => f.output)).toEqual(outputs);
+    expect(figs.filter((f) => f.kind === 'column')).toHaveLength(1);
+    expect(figs).toHaveLength(report.plots.length);
+    for (const f of figs) expect(xmlProblem(f.svg), f.kind).toBeNull();
+    // every id on the page is unique (several inline SVGs)
+    expect(new Set(ids(html)).size).toBe(ids(html).length);
+    // maps: the first two swept inputs, lid at its middle value; units from the registry
+    const crustMap = figs.find((f) => f.kind === 'map' && f.output === 'crust_km')!.svg;
+    expect(axisTitles(crustMap)).toEqual(['Mantle potential temperature (degC)', 'Bulk water of the source (ppm)']);
+    expect(crustMap).toContain('slice at lid_km = 10 km');
+    expect(markGroups(crustMap, 'map_cells')).toBe(1);
+    expect(crustMap.split('aria-roledescription="rect mark"').length - 1).toBeGreaterThanOrEqual(15);
+    // representative columns: min, median and max crust among ok rows, three paths
+    const column = figs.find((f) => f.kind === 'column')!.svg;
+    expect(markGroups(column, 'melting_path')).toBe(3);
+    expect(column).toMatch(/>min crust_km [0-9.]+ km: /);
+    expect(column).toMatch(/>max crust_km [0-9.]+ km: /);
+    // run metadata
+    for (const text of ['ridge segment R-7 test grid', 'grid, 5 × 3 × 3', '<td>45</td>', '<td>ok</td>', '<td>M_cpx</td>', '<td>upwelling_mm_yr</td>']) expect(html).toContain(text);
+  });
+
+  it('follows --x, --y, --at and --outputs', async () => {
+    const report = await buildHtmlReport(grid, { outputs: ['f_max'], x: 'lid_km', y: 'tp_c', at: { water_ppm: 90 } });
+    const figs = figures(report.html);
+    expect(figs.filter((f) => f.kind === 'map')).toHaveLength(1);
+    const map = figs.find((f) => f.kind === 'map')!.svg;
+    expect(axisTitles(map)).toEqual(['Thickness of the conductive lid (km)', 'Mantle potential temperature (degC)']);
+    expect(map).toContain('slice at water_ppm = 100 ppm');
+    expect(figs.find((f) => f.kind === 'column')!.svg).toContain('f_max');
+  });
+
+  it('refuses bad options with the option, the value and what is allowed', async () => {
+    const problems = async (o: Parameters<typeof buildHtmlReport>[1]): Promise<string> => {
+      try {
+        await buildHtmlReport(grid, o);
+      } catch (err) {
+        expect(err).toBeInstanceOf(InputError);
+        return (err as InputError).message;
+      }
+      throw new Error('no error');
+    };
+    expect(await problems({ x: 'upwelling_mm_yr' })).toBe('--x: upwelling_mm_yr is not swept in this sweep (held at 30 mm/yr); swept inputs: tp_c, water_ppm, lid_km');
+    expect(await problems({ y: 'depth' })).toBe('--y: "depth" is not an input; swept inputs: tp_c, water_ppm, lid_km');
+    expect(await problems({ x: 'tp_c', y: 'tp_c' })).toMatch(/^--x and --y: both are tp_c/);
+    expect(await problems({ at: { lid_km: 50 } })).toBe('--at: lid_km=50 km is outside the swept range 0-20 km');
+    expect(await problems({ at: { tp_c: 1300 } })).toMatch(/^--at: tp_c is on the --x axis/);
+    expect(await problems({ outputs: ['crust'] })).toMatch(/^--outputs: "crust" is not an output column; allowed: onset_p_gpa, /);
+    expect(await problems({ outputs: ['surface_heat_flow_mw_m2'] })).toMatch(/^--outputs: surface_heat_flow_mw_m2 holds no values in /);
+    expect(() => parseAtOption('lid_km:10')).toThrow('--at: "lid_km:10" is not allowed; give name=value pairs');
+    expect(parseAtOption('lid_km=10, water_ppm=5')).toEqual({ lid_km: 10, water_ppm: 5 });
+    await expect(buildHtmlReport(path.join(dir, 'missing.arrow'))).rejects.toThrow(/RESULTS: .*missing.arrow does not exist/);
+  });
+});
+
+describe('HTML report of a saltelli sweep', () => {
+  it('bins the samples for the maps and draws index intervals', async () => {
+    const out = path.join(dir, 'saltelli.html');
+    const report = await writeHtmlReport(saltelli, out, { outputs: ['crust_km', 'f_max'], resamples: 50 });
+    const html = fs.readFileSync(out, 'utf8');
+    expect(html).toBe(report.html);
+    expect(xmlProblem(html)).toBeNull();
+    expect(report.warnings).toEqual([]);
+    const figs = figures(html);
+    expect(figs.map((f) => f.kind)).toEqual(['map', 'map', 'indices', 'main-effects', 'indices', 'main-effects', 'column']);
+    const map = figs[0].svg;
+    expect(map).toContain('mean of the samples in each cell');
+    expect(markGroups(figs[2].svg, 'index_intervals')).toBe(1);
+    expect(figs[2].svg).toContain('total (ST)');
+  });
+});
