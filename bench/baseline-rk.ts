@@ -71,7 +71,7 @@ export function baselineColumn(s: Scenario, p: MeltParams, rtol = 1e-6): Baselin
   let [k1T, k1I] = rhs(T, P);
   while (P > pTop + 1e-12) {
     if (P + h < pTop) h = pTop - P;
-    const [k2T, k2I] = rhs(T + h * A21 * k1T, P + C2 * h);
+    const [k2T] = rhs(T + h * A21 * k1T, P + C2 * h);
     const [k3T, k3I] = rhs(T + h * (A31 * k1T + A32 * k2T), P + C3 * h);
     const [k4T, k4I] = rhs(T + h * (A41 * k1T + A42 * k2T + A43 * k3T), P + C4 * h);
     const [k5T, k5I] = rhs(T + h * (A51 * k1T + A52 * k2T + A53 * k3T + A54 * k4T), P + C5 * h);

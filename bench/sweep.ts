@@ -10,7 +10,7 @@ import os from 'node:os';
 import path from 'node:path';
 import { validateSweep } from '../src/spec/index.js';
 import { runSweep } from '../src/run/run-sweep.js';
-import { formatBench, isMain, summarise, type BenchResult } from './util.js';
+import { formatBench, isMain, median, summarise, type BenchResult } from './util.js';
 
 /** A grid of about `points` isentropic columns over Tp 1250-1500 degC, water 0-500 ppm, lid 0-30 km. */
 export function benchSweepSpec(points: number) {
@@ -30,34 +30,43 @@ export function benchSweepSpec(points: number) {
 export interface SweepBenchResult {
   readonly points: number;
   readonly byWorkers: ReadonlyArray<BenchResult & { readonly workers: number }>;
-  /** rate with w workers / (w x rate with 1 worker), for each w > 1 */
+  /** median over paired repetitions of rate(w) / rate(1), and that divided by w, for each w > 1 */
   readonly efficiency: ReadonlyArray<{ readonly workers: number; readonly speedup: number; readonly efficiency: number }>;
 }
 
+/**
+ * Repetitions alternate between worker counts (1, 2, 1, 2, ...) so that slow drifts of a shared
+ * machine hit every count alike; the speed-up is the median of the paired ratios.
+ */
 export async function benchSweep(points = 200_000, repetitions = 3): Promise<SweepBenchResult> {
   const spec = benchSweepSpec(points);
   const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'meltsweep-bench-sweep-'));
   const cores = os.availableParallelism();
   const counts = [...new Set([1, 2, cores])].filter((w) => w <= Math.max(2, cores));
-  const byWorkers: Array<BenchResult & { workers: number }> = [];
+  const rates = new Map<number, number[]>(counts.map((w) => [w, []]));
   let rows = 0;
   try {
-    for (const workers of counts) {
-      const rates: number[] = [];
-      for (let rep = 0; rep < repetitions; rep++) {
+    for (let rep = 0; rep < repetitions; rep++) {
+      for (const workers of counts) {
         const out = path.join(dir, `w${workers}-${rep}.arrow`);
         const s = await runSweep({ spec, outPath: out, workers, force: true });
         rows = s.rows;
-        rates.push(s.rows / s.seconds);
+        rates.get(workers)!.push(s.rows / s.seconds);
         fs.rmSync(out, { force: true });
       }
-      byWorkers.push({ ...summarise(`sweep, ${workers} worker${workers === 1 ? '' : 's'} (wall clock)`, 'columns/s', rates), workers });
     }
   } finally {
     fs.rmSync(dir, { recursive: true, force: true });
   }
-  const one = byWorkers[0].median;
-  const efficiency = byWorkers.slice(1).map((b) => ({ workers: b.workers, speedup: b.median / one, efficiency: b.median / (b.workers * one) }));
+  const byWorkers = counts.map((workers) => ({
+    ...summarise(`sweep, ${workers} worker${workers === 1 ? '' : 's'} (wall clock)`, 'columns/s', rates.get(workers)!),
+    workers,
+  }));
+  const one = rates.get(1)!;
+  const efficiency = counts.slice(1).map((workers) => {
+    const speedup = median(rates.get(workers)!.map((r, i) => r / one[i]));
+    return { workers, speedup, efficiency: speedup / workers };
+  });
   return { points: rows, byWorkers, efficiency };
 }
 

@@ -61,7 +61,7 @@ export async function benchWriter(rows = 2_000_000, chunkRows = 4096, repetition
       for (const c of chunks) {
         pending.push(chunkToRecordBatch(c, schema, dictionary));
         if (c.end - segStart >= 262_144 || c.end === rows) {
-          store.commit(segStart, c.end, pending);
+          await store.commit(segStart, c.end, pending);
           pending = [];
           segStart = c.end;
         }

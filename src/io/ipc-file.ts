@@ -137,6 +137,31 @@ export function writeFileAtomic(finalPath: string, bytes: Uint8Array | string): 
   fsyncDir(path.dirname(finalPath));
 }
 
+/**
+ * writeFileAtomic without blocking the event loop: the write and the fsync run on libuv's thread
+ * pool, so the main thread keeps handing tasks to workers meanwhile.
+ */
+export async function writeFileAtomicAsync(finalPath: string, bytes: Uint8Array): Promise<void> {
+  const tmp = `${finalPath}.tmp-${process.pid}`;
+  const fh = await fs.promises.open(tmp, 'w');
+  try {
+    let done = 0;
+    while (done < bytes.byteLength) {
+      const { bytesWritten } = await fh.write(bytes, done, bytes.byteLength - done);
+      if (bytesWritten <= 0) throw new Error(`short write: ${done} of ${bytes.byteLength} bytes`);
+      done += bytesWritten;
+    }
+    await fh.sync();
+  } catch (err) {
+    await fh.close().catch(() => undefined);
+    await fs.promises.rm(tmp, { force: true });
+    throw err;
+  }
+  await fh.close();
+  await fs.promises.rename(tmp, finalPath);
+  fsyncDir(path.dirname(finalPath));
+}
+
 /** The schema of an Arrow IPC file or stream, read without loading its batches. */
 export async function readIpcSchema(filePath: string): Promise<arrow.Schema> {
   const handle = await fs.promises.open(filePath, 'r');

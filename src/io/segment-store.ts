@@ -9,7 +9,7 @@
 import * as arrow from 'apache-arrow';
 import fs from 'node:fs';
 import path from 'node:path';
-import { fsyncDir, writeFileAtomic } from './ipc-file.js';
+import { fsyncDir, writeFileAtomic, writeFileAtomicAsync } from './ipc-file.js';
 
 export interface PartialManifest {
   readonly sweepHash: string;
@@ -101,13 +101,13 @@ export class SegmentStore {
    * (runs with a profile grid) the profile rows are committed first, so a committed segment
    * always has its profile rows and a resume keeps the two tables consistent.
    */
-  commit(start: number, end: number, batches: readonly arrow.RecordBatch[], profileBatches?: readonly arrow.RecordBatch[]): void {
+  async commit(start: number, end: number, batches: readonly arrow.RecordBatch[], profileBatches?: readonly arrow.RecordBatch[]): Promise<void> {
     if (profileBatches !== undefined) {
       const profileBytes = arrow.tableToIPC(new arrow.Table(profileBatches as arrow.RecordBatch[]), 'stream');
-      writeFileAtomic(path.join(this.dir, profileName(start, end)), profileBytes);
+      await writeFileAtomicAsync(path.join(this.dir, profileName(start, end)), profileBytes);
     }
     const bytes = arrow.tableToIPC(new arrow.Table(batches as arrow.RecordBatch[]), 'stream');
-    writeFileAtomic(path.join(this.dir, `seg-${pad(start)}-${pad(end)}.arrows`), bytes);
+    await writeFileAtomicAsync(path.join(this.dir, `seg-${pad(start)}-${pad(end)}.arrows`), bytes);
   }
 
   remove(): void {

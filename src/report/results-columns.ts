@@ -7,7 +7,7 @@ import type * as arrow from 'apache-arrow';
 import fs from 'node:fs';
 import { InputError } from '../errors.js';
 import { readResultsMeta, type ResultsTableMeta } from '../io/arrow-schema.js';
-import { readIpcBatches, readIpcSchema } from '../io/ipc-file.js';
+import { readTableBatches, readTableSchema } from '../io/table-reader.js';
 import { INPUT_NAMES, RESULT_NUMERIC_NAMES, type InputName } from '../physics/fields.js';
 import { COLUMN_STATUSES, type ColumnStatus } from '../physics/types.js';
 import type { SweepSpec } from '../spec/types.js';
@@ -36,12 +36,12 @@ export async function readResultsInfo(file: string, argName = 'RESULTS'): Promis
   if (!fs.existsSync(file) || !fs.statSync(file).isFile()) throw new InputError(`${argName}: ${file} does not exist or is not a file; give a results file written by meltsweep run or merge`);
   let meta: ResultsTableMeta & { sweep: unknown };
   try {
-    meta = readResultsMeta(await readIpcSchema(file));
+    meta = readResultsMeta(await readTableSchema(file));
   } catch (err) {
     throw new InputError(`${argName}: ${file} is not a meltsweep results table (${err instanceof Error ? err.message : String(err)})`);
   }
   const seen = new Set<string>();
-  for await (const batch of readIpcBatches(file)) {
+  for await (const batch of readTableBatches(file)) {
     for (const n of RESULT_NUMERIC_NAMES) {
       const col = batch.getChild(n);
       if (col !== null && col.nullCount < col.length) seen.add(n);
@@ -75,7 +75,7 @@ export async function readResultsColumns(file: string, outputs: readonly string[
   const status = new Uint8Array(rows);
   const statusCounts = Object.fromEntries(COLUMN_STATUSES.map((s) => [s, 0])) as Record<ColumnStatus, number>;
   let offset = 0;
-  for await (const batch of readIpcBatches(file)) {
+  for await (const batch of readTableBatches(file)) {
     if (offset + batch.numRows > rows) throw new InputError(`${file}: holds more rows than its metadata says (${rows})`);
     for (const n of INPUT_NAMES) copyFloat(inputs[n], offset, batch.getChild(n), batch.numRows);
     for (const n of outputs) copyFloat(outs[n], offset, batch.getChild(n), batch.numRows);

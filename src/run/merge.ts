@@ -16,7 +16,7 @@ import { profilesPathFor, resolveOutputFormat, type OutputFormat } from '../io/o
 import { profilesSchema } from '../io/profile-table.js';
 import { readTableBatches, readTableSchema } from '../io/table-reader.js';
 import { openTableSink, type TableSinkOptions } from '../io/table-sink.js';
-import { countStatuses } from './run-sweep.js';
+import { countStatuses } from './publication.js';
 import { COLUMN_STATUSES } from '../physics/types.js';
 
 export interface MergeSummary {

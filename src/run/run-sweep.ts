@@ -13,21 +13,21 @@ import path from 'node:path';
 import { pathToFileURL } from 'node:url';
 import { Piscina } from 'piscina';
 import { InputError, RunError } from '../errors.js';
-import { COLUMN_STATUSES, type ColumnStatus } from '../physics/types.js';
+import type { ColumnStatus } from '../physics/types.js';
 import { resolveParams } from '../physics/params.js';
 import { planSweep, shardRange } from '../plan/index.js';
 import { sweepHash } from '../spec/index.js';
 import type { SweepSpec } from '../spec/types.js';
 import { TOOL_VERSION } from '../version.js';
-import { chunkToRecordBatch, withSharedDictionary } from '../io/arrow-batch.js';
+import { chunkToRecordBatch } from '../io/arrow-batch.js';
 import { makeStatusDictionary, resultsSchema, type ResultsTableMeta } from '../io/arrow-schema.js';
-import { readIpcBatches } from '../io/ipc-file.js';
 import { profilesPathFor, resolveOutputFormat, type OutputFormat } from '../io/output-format.js';
 import { profileAxis, profileChunkToRecordBatch, profilesSchema } from '../io/profile-table.js';
-import { partialDirFor, SegmentStore, type PartialManifest, type Segment } from '../io/segment-store.js';
+import { partialDirFor, SegmentStore, type PartialManifest } from '../io/segment-store.js';
 import { readTableBatches, readTableSchema } from '../io/table-reader.js';
-import { openTableSink, publishedFiles, type TableSinkOptions } from '../io/table-sink.js';
+import { publishedFiles, type TableSinkOptions } from '../io/table-sink.js';
 import { failedChunk, makeChunkContext, type ChunkResult } from './compute-chunk.js';
+import { countStatuses, emptyCounts, Publication } from './publication.js';
 import { defaultChunkSize } from './chunks.js';
 import { formatProfileGrid, profileGridPressures, type ProfileGrid } from './profile-grid.js';
 import type { ProgressSink } from './progress.js';
@@ -90,10 +90,6 @@ export interface RunSummary {
   readonly format: OutputFormat;
   /** the profile table, when the run writes one */
   readonly profilesPath: string | null;
-}
-
-function emptyCounts(): Record<ColumnStatus, number> {
-  return Object.fromEntries(COLUMN_STATUSES.map((s) => [s, 0])) as Record<ColumnStatus, number>;
 }
 
 /** Refuse, before any work, outputs that cannot be written or would be overwritten. */
@@ -221,6 +217,20 @@ export async function runSweep(opts: RunOptions): Promise<RunSummary> {
   const pSchema = profileGrid !== undefined ? profilesSchema(meta, profileGrid) : null;
   const axis = profilePressures !== null ? profileAxis(profilePressures, params) : null;
 
+  const publication = await Publication.open(
+    format,
+    { path: outPath, schema },
+    dictionary,
+    profilesPath !== null && pSchema !== null ? { path: profilesPath, schema: pSchema } : null,
+    partialDir,
+    opts.writer,
+  );
+  try {
+    await publication.replay(store);
+  } catch (err) {
+    await publication.abort();
+    throw err;
+  }
   const resumeFrom = store.committedEnd();
   const chunks: Array<[number, number]> = [];
   for (let s = resumeFrom; s < rowEnd; s += chunkSize) chunks.push([s, Math.min(s + chunkSize, rowEnd)]);
@@ -259,7 +269,8 @@ export async function runSweep(opts: RunOptions): Promise<RunSummary> {
     }
   };
 
-  const window = workers * 2 + 1;
+  // enough queued work that workers keep busy while the main thread commits a segment (fsync)
+  const window = workers * 4 + 2;
   const finished = new Map<number, ChunkResult>();
   const inFlight = new Map<number, Promise<void>>();
   let nextSubmit = 0;
@@ -274,16 +285,17 @@ export async function runSweep(opts: RunOptions): Promise<RunSummary> {
   const segmentRows = opts.segmentRows ?? 262_144;
   const segmentMs = (opts.segmentSeconds ?? 3) * 1000;
 
-  const commitSegment = (): void => {
+  const commitSegment = async (): Promise<void> => {
     if (segBatches.length === 0) return;
     try {
-      store!.commit(segStart, segEnd, segBatches, pSchema !== null ? segProfileBatches : undefined);
+      await store!.commit(segStart, segEnd, segBatches, pSchema !== null ? segProfileBatches : undefined);
     } catch (err) {
       const why = err instanceof Error ? err.message : String(err);
       throw new RunError(
         `cannot write results to ${partialDir}: ${why}. Rows ${rowStart}-${segStart} are kept; fix the problem and rerun the same command with --resume.`,
       );
     }
+    await publication.append(segBatches, pSchema !== null ? segProfileBatches : null);
     segBatches = [];
     segProfileBatches = [];
     segProfileRows = 0;
@@ -323,14 +335,17 @@ export async function runSweep(opts: RunOptions): Promise<RunSummary> {
         segEnd = ready.end;
         segRows += ready.end - ready.start;
         // profile rows are 7 numbers each: a segment holds at most 8 x segmentRows of them
-        if (segRows >= segmentRows || segProfileRows >= segmentRows * 8 || performance.now() - lastCommit >= segmentMs) commitSegment();
+        if (segRows >= segmentRows || segProfileRows >= segmentRows * 8 || performance.now() - lastCommit >= segmentMs) await commitSegment();
         opts.progress?.update(segEnd - rowStart);
         continue;
       }
       if (inFlight.size === 0) break; // interrupted: nothing more will arrive
       await Promise.race(inFlight.values());
     }
-    commitSegment();
+    await commitSegment();
+  } catch (err) {
+    await publication.abort();
+    throw err;
   } finally {
     opts.signal?.removeEventListener('abort', onAbort);
     // wait for running tasks so no worker writes after we return
@@ -340,6 +355,7 @@ export async function runSweep(opts: RunOptions): Promise<RunSummary> {
 
   const computedRows = segEnd - resumeFrom;
   if (interrupted && segEnd < rowEnd) {
+    await publication.abort();
     opts.progress?.finish(segEnd - rowStart);
     return {
       outPath, rowStart, rowEnd, rows: segEnd - rowStart, computedRows, counts: emptyCounts(),
@@ -348,63 +364,13 @@ export async function runSweep(opts: RunOptions): Promise<RunSummary> {
     };
   }
   opts.progress?.finish(rowEnd - rowStart);
-
-  // the profile table first: a published results table means the run is complete
-  if (profilesPath !== null && pSchema !== null) {
-    await publishFromSegments(store, profilesPath, pSchema, null, format, (seg) => seg.profileFile, opts.writer);
-  }
-  const counts = await publishFromSegments(store, outPath, schema, dictionary, format, (seg) => seg.file, opts.writer);
+  await publication.publish();
   store.remove();
   return {
-    outPath, rowStart, rowEnd, rows: rowEnd - rowStart, computedRows, counts,
+    outPath, rowStart, rowEnd, rows: rowEnd - rowStart, computedRows, counts: publication.counts,
     seconds: (performance.now() - t0) / 1000, workers, chunkSize, retriedChunks, lostChunks, interrupted: false, sweepHash: hash,
     format, profilesPath,
   };
-}
-
-/**
- * Concatenate the committed segments (or their profile companions, by `fileOf`) into the final
- * table in the requested format, and count rows by status. `dictionary`: the shared status
- * dictionary (null for tables without a status column).
- */
-async function publishFromSegments(
-  store: SegmentStore,
-  outPath: string,
-  schema: arrow.Schema,
-  dictionary: arrow.Vector<arrow.Utf8> | null,
-  format: OutputFormat,
-  fileOf: (seg: Segment) => string,
-  writer?: TableSinkOptions,
-): Promise<Record<ColumnStatus, number>> {
-  const counts = emptyCounts();
-  const sink = await openTableSink(format, outPath, schema, writer);
-  try {
-    for (const seg of store.segments()) {
-      for await (const batch of readIpcBatches(fileOf(seg))) {
-        const rebuilt = dictionary === null ? new arrow.RecordBatch(schema, batch.data) : withSharedDictionary(batch, schema, dictionary);
-        if (dictionary !== null) countStatuses(rebuilt, counts);
-        await sink.write(rebuilt);
-      }
-    }
-    await sink.publish();
-  } catch (err) {
-    await sink.abort();
-    const why = err instanceof Error ? err.message : String(err);
-    throw new RunError(`cannot publish ${outPath}: ${why}. The computed rows are kept in ${store.dir}; rerun with --resume.`);
-  }
-  return counts;
-}
-
-/** Add a batch's rows to counts by status. */
-export function countStatuses(batch: arrow.RecordBatch, counts: Record<ColumnStatus, number>): void {
-  const col = batch.getChild('status');
-  if (col === null) return;
-  for (const data of col.data) {
-    const dict = data.dictionary as arrow.Vector<arrow.Utf8>;
-    const names = Array.from({ length: dict.length }, (_, i) => dict.get(i) as ColumnStatus);
-    const codes = data.values as Int8Array;
-    for (let i = 0; i < data.length; i++) counts[names[codes[data.offset + i]]]++;
-  }
 }
 
 async function finishedSummary(

@@ -186,7 +186,7 @@ describe('resume and merge with profiles', () => {
     const out = path.join(dir, 'resumed.parquet');
     const controller = new AbortController();
     const first = await runSweep({
-      spec, outPath: out, workers: 1, chunkSize: 2, segmentRows: 2, signal: controller.signal, profiles: GRID,
+      spec, outPath: out, workers: 1, chunkSize: 1, segmentRows: 1, signal: controller.signal, profiles: GRID,
       progress: { update: (done) => { if (done >= 2) controller.abort(); }, finish: () => undefined },
     });
     expect(first.interrupted).toBe(true);
