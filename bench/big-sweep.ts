@@ -11,7 +11,7 @@ import os from 'node:os';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { runSweep } from '../src/run/run-sweep.js';
-import { benchSweepSpec } from './sweep.js';
+import { validateSweep } from '../src/spec/index.js';
 import { isMain } from './util.js';
 
 export interface BigSweepResult {
@@ -23,10 +23,24 @@ export interface BigSweepResult {
   readonly workers: number;
 }
 
+/** An isentropic grid of exactly `points` columns when points is a multiple of 40,000 (200 x 200 x n). */
+export function bigSweepSpec(points: number) {
+  return validateSweep({
+    name: 'bench grid B-10M',
+    axes: {
+      tp_c: { from: 1250, to: 1500, count: Math.max(1, Math.round(points / 40_000)) },
+      water_ppm: { from: 0, to: 500, count: 200 },
+      lid_km: { from: 0, to: 30, count: 200 },
+    },
+    design: { kind: 'grid' },
+    model: { thermal: 'isentropic', water: 'batch' },
+  });
+}
+
 /** Child side: run the sweep, print one JSON line. */
 async function child(points: number, dir: string): Promise<void> {
   const out = path.join(dir, 'big.arrow');
-  const s = await runSweep({ spec: benchSweepSpec(points), outPath: out, force: true });
+  const s = await runSweep({ spec: bigSweepSpec(points), outPath: out, force: true });
   const size = fs.statSync(out).size;
   fs.rmSync(out, { force: true });
   const result: BigSweepResult = {
