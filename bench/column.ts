@@ -8,7 +8,7 @@
  */
 import { defaultModel, meltColumn } from '../src/physics/column.js';
 import type { ColumnResult, Scenario } from '../src/physics/types.js';
-import { formatBench, isMain, recurrencePoint, secondsSince, summarise, type BenchResult } from './util.js';
+import { formatBench, isMain, measureRates, recurrencePoint, summarise, type BenchResult } from './util.js';
 
 /** The benchmark's scenario set: a low-discrepancy (additive recurrence) fill of the box. */
 export function benchScenarios(count = 2000): Scenario[] {
@@ -50,27 +50,11 @@ export async function benchColumn(opts: ColumnBenchOptions = {}): Promise<BenchR
     }
   };
   once(); // warm up the JIT
-  const cpuRates: number[] = [];
-  const wallRates: number[] = [];
-  for (let rep = 0; rep < repetitions; rep++) {
-    let n = 0;
-    const cpu0 = process.cpuUsage();
-    const start = process.hrtime.bigint();
-    let elapsed = 0;
-    do {
-      once();
-      n += scenarios.length;
-      elapsed = secondsSince(start);
-    } while (elapsed < minSeconds);
-    const cpu = process.cpuUsage(cpu0);
-    cpuRates.push(n / ((cpu.user + cpu.system) / 1e6));
-    wallRates.push(n / elapsed);
-    await new Promise((resolve) => setImmediate(resolve));
-  }
+  const rates = await measureRates(once, scenarios.length, repetitions, minSeconds);
   if (!Number.isFinite(sink)) throw new Error('bench: non-finite crust');
   return {
-    ...summarise('isentropic column (CPU time, one core)', 'columns/s', cpuRates),
-    wall: summarise('isentropic column (wall clock)', 'columns/s', wallRates),
+    ...summarise('isentropic column (CPU time, one core)', 'columns/s', rates.cpu),
+    wall: summarise('isentropic column (wall clock)', 'columns/s', rates.wall),
   };
 }
 

@@ -9,7 +9,7 @@
 import { conductiveColumn } from '../src/physics/conductive-column.js';
 import { DEFAULT_PARAMS } from '../src/physics/params.js';
 import type { ModelOptions, Scenario } from '../src/physics/types.js';
-import { formatBench, isMain, recurrencePoint, secondsSince, summarise, type BenchResult } from './util.js';
+import { formatBench, isMain, measureRates, recurrencePoint, summarise, type BenchResult } from './util.js';
 
 /** The benchmark's scenario set: a low-discrepancy (additive recurrence) fill of the box. */
 export function conductiveBenchScenarios(count = 1000): Scenario[] {
@@ -49,21 +49,9 @@ export async function benchConductive(opts: ConductiveBenchOptions = {}): Promis
   };
   once(); // warm up the JIT
   if (failed > 0) throw new Error(`bench: ${failed} conductive columns failed`);
-  const rates: number[] = [];
-  for (let rep = 0; rep < repetitions; rep++) {
-    let n = 0;
-    const start = process.hrtime.bigint();
-    let elapsed = 0;
-    do {
-      once();
-      n += scenarios.length;
-      elapsed = secondsSince(start);
-    } while (elapsed < minSeconds);
-    rates.push(n / elapsed);
-    await new Promise((resolve) => setImmediate(resolve));
-  }
+  const rates = await measureRates(once, scenarios.length, repetitions, minSeconds);
   if (!Number.isFinite(sink)) throw new Error('bench: non-finite crust');
-  return summarise('conductive column', 'columns/s', rates);
+  return summarise('conductive column (CPU time, one core)', 'columns/s', rates.cpu);
 }
 
 if (isMain(import.meta.url)) {

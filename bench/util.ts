@@ -52,3 +52,34 @@ const RECURRENCE = [0.6180339887498949, 0.41421356237309515, 0.7320508075688772,
 export function recurrencePoint(i: number): [number, number, number, number] {
   return [0, 1, 2, 3].map((k) => (0.5 + i * RECURRENCE[k]) % 1) as [number, number, number, number];
 }
+
+/**
+ * Call `once` (which processes `itemsPerCall` items) repeatedly for at least `minSeconds`, in
+ * `repetitions` repetitions; returns items per second of process CPU time (user + system: other
+ * load on a shared machine does not count against it) and of wall-clock time, per repetition.
+ */
+export async function measureRates(
+  once: () => void,
+  itemsPerCall: number,
+  repetitions: number,
+  minSeconds: number,
+): Promise<{ cpu: number[]; wall: number[] }> {
+  const cpu: number[] = [];
+  const wall: number[] = [];
+  for (let rep = 0; rep < repetitions; rep++) {
+    let n = 0;
+    const cpu0 = process.cpuUsage();
+    const start = process.hrtime.bigint();
+    let elapsed = 0;
+    do {
+      once();
+      n += itemsPerCall;
+      elapsed = secondsSince(start);
+    } while (elapsed < minSeconds);
+    const used = process.cpuUsage(cpu0);
+    cpu.push(n / ((used.user + used.system) / 1e6));
+    wall.push(n / elapsed);
+    await new Promise((resolve) => setImmediate(resolve));
+  }
+  return { cpu, wall };
+}

@@ -12,7 +12,7 @@
 import * as arrow from 'apache-arrow';
 import fs from 'node:fs';
 import path from 'node:path';
-import { fsyncDir, writeAllSync, writeFileAtomic } from './ipc-file.js';
+import { discardTemporaryFile, publishTemporaryFile, writeAllSync, writeFileAtomic } from './ipc-file.js';
 
 /** The sidecar of a CSV table: `FILE.units.json`. */
 export function csvSidecarPath(csvPath: string): string {
@@ -159,23 +159,16 @@ export class CsvFileSink {
   }
 
   async publish(): Promise<void> {
-    fs.fsyncSync(this.fd);
-    fs.closeSync(this.fd);
     this.closed = true;
+    // the sidecar first: a published CSV always has its units beside it
     writeFileAtomic(csvSidecarPath(this.finalPath), `${JSON.stringify(csvSidecar(this.finalPath, this.schema, this.rows), null, 2)}\n`);
-    fs.renameSync(this.tmpPath, this.finalPath);
-    fsyncDir(path.dirname(this.finalPath));
+    publishTemporaryFile(this.fd, this.tmpPath, this.finalPath);
   }
 
   async abort(): Promise<void> {
     if (this.closed) return;
     this.closed = true;
-    try {
-      fs.closeSync(this.fd);
-    } catch {
-      // already closed
-    }
-    fs.rmSync(this.tmpPath, { force: true });
+    discardTemporaryFile(this.fd, this.tmpPath);
   }
 }
 

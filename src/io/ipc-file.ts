@@ -81,11 +81,8 @@ export class IpcFileSink {
     this.writer.close();
     await this.pump;
     this.check();
-    fs.fsyncSync(this.fd);
-    fs.closeSync(this.fd);
     this.closed = true;
-    fs.renameSync(this.tmpPath, this.finalPath);
-    fsyncDir(path.dirname(this.finalPath));
+    publishTemporaryFile(this.fd, this.tmpPath, this.finalPath);
   }
 
   /** Abandon the file (removes the temporary file). */
@@ -98,13 +95,26 @@ export class IpcFileSink {
     } catch {
       // already failing
     }
-    try {
-      fs.closeSync(this.fd);
-    } catch {
-      // already closed
-    }
-    fs.rmSync(this.tmpPath, { force: true });
+    discardTemporaryFile(this.fd, this.tmpPath);
   }
+}
+
+/** fsync and close a finished temporary file, rename it to its final name, fsync the folder. */
+export function publishTemporaryFile(fd: number, tmpPath: string, finalPath: string): void {
+  fs.fsyncSync(fd);
+  fs.closeSync(fd);
+  fs.renameSync(tmpPath, finalPath);
+  fsyncDir(path.dirname(finalPath));
+}
+
+/** Close (if still open) and remove an abandoned temporary file. */
+export function discardTemporaryFile(fd: number, tmpPath: string): void {
+  try {
+    fs.closeSync(fd);
+  } catch {
+    // already closed
+  }
+  fs.rmSync(tmpPath, { force: true });
 }
 
 /** fsync a folder so a rename inside it survives a crash (best effort where unsupported). */

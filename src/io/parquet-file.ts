@@ -13,9 +13,8 @@
  */
 import * as arrow from 'apache-arrow';
 import fs from 'node:fs';
-import path from 'node:path';
 import type * as PQ from 'parquet-wasm';
-import { fsyncDir, writeAllSync } from './ipc-file.js';
+import { discardTemporaryFile, publishTemporaryFile, writeAllSync } from './ipc-file.js';
 
 type ParquetWasm = typeof PQ;
 
@@ -159,11 +158,8 @@ export class ParquetFileSink {
       await this.pump;
     }
     this.check();
-    fs.fsyncSync(this.fd);
-    fs.closeSync(this.fd);
     this.closed = true;
-    fs.renameSync(this.tmpPath, this.finalPath);
-    fsyncDir(path.dirname(this.finalPath));
+    publishTemporaryFile(this.fd, this.tmpPath, this.finalPath);
   }
 
   /** Abandon the file (removes the temporary file). */
@@ -176,12 +172,7 @@ export class ParquetFileSink {
     } catch {
       // already failing
     }
-    try {
-      fs.closeSync(this.fd);
-    } catch {
-      // already closed
-    }
-    fs.rmSync(this.tmpPath, { force: true });
+    discardTemporaryFile(this.fd, this.tmpPath);
   }
 }
 
