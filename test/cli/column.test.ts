@@ -46,7 +46,8 @@ describe('meltsweep column', () => {
     const r = cli('column', '--tp', '1350', '--mode', 'fractional', '--water', '200');
     expect(r.status, r.stderr).toBe(0);
     const lines = r.stdout.trim().split('\n');
-    expect(lines[0]).toMatch(/^status\s+ok$/);
+    expect(lines[0]).toBe('model: isentropic (auto: no upwelling rate), water fractional');
+    expect(lines[1]).toMatch(/^status\s+ok$/);
     for (const f of RESULT_NUMERIC_FIELDS) {
       const line = lines.find((l) => l.startsWith(`${f.name} `));
       expect(line, f.name).toBeDefined();

@@ -6,7 +6,7 @@
 import type { Command } from 'commander';
 import fs from 'node:fs';
 import { InputError, RunError, EXIT_RUN_FAILED } from '../../errors.js';
-import { defaultModel, meltColumn } from '../../physics/column.js';
+import { defaultModel, meltColumn, resolveThermalModel } from '../../physics/column.js';
 import { PROFILE_FIELDS, REASON_FIELD, RESULT_NUMERIC_FIELDS, STATUS_FIELD } from '../../physics/fields.js';
 import { checkRangeValue, formatRange, INPUT_RANGES, STEP_GPA_RANGE, type InputRange } from '../../physics/ranges.js';
 import type { ColumnResult, ModelOptions, Scenario, ThermalModel, WaterMode } from '../../physics/types.js';
@@ -126,7 +126,13 @@ export function registerColumn(program: Command): void {
           throw new RunError(`cannot write the profile to ${o.profile}: ${err instanceof Error ? err.message : String(err)}`);
         }
       }
-      process.stdout.write(o.json ? `${JSON.stringify(resultRecord(result))}\n` : `${resultTable(result)}\n`);
+      if (o.json) {
+        process.stdout.write(`${JSON.stringify(resultRecord(result))}\n`);
+      } else {
+        const thermal = resolveThermalModel(scenario, model);
+        const how = model.thermal === 'auto' ? ` (auto: ${Number.isFinite(scenario.upwelling_mm_yr) ? 'an upwelling rate is given' : 'no upwelling rate'})` : '';
+        process.stdout.write(`model: ${thermal}${how}, water ${model.water}\n${resultTable(result)}\n`);
+      }
       if (result.status === 'failed') process.exitCode = EXIT_RUN_FAILED;
     });
 }
