@@ -24,7 +24,7 @@ import { makeStatusDictionary, resultsSchema, type ResultsTableMeta } from '../i
 import { profilesPathFor, resolveOutputFormat, type OutputFormat } from '../io/output-format.js';
 import { profileAxis, profileChunkToRecordBatch, profilesSchema } from '../io/profile-table.js';
 import { partialDirFor, SegmentStore, type PartialManifest } from '../io/segment-store.js';
-import { readTableBatches, readTableSchema } from '../io/table-reader.js';
+import { readTableBatches } from '../io/table-reader.js';
 import { publishedFiles, type TableSinkOptions } from '../io/table-sink.js';
 import { failedChunk, makeChunkContext, type ChunkResult } from './compute-chunk.js';
 import { countStatuses, emptyCounts, Publication } from './publication.js';
@@ -33,6 +33,7 @@ import { formatProfileGrid, profileGridPressures, type ProfileGrid } from './pro
 import type { ProgressSink } from './progress.js';
 import type { ChunkTask } from './task.js';
 import { sweepWorkerFile } from './worker-file.js';
+import { checkOutput, existingOutputMatches, removeStaleTemporaries } from './output-guard.js';
 
 export interface ShardSelection {
   /** 1-based shard number */
@@ -90,49 +91,6 @@ export interface RunSummary {
   readonly format: OutputFormat;
   /** the profile table, when the run writes one */
   readonly profilesPath: string | null;
-}
-
-/** Refuse, before any work, outputs that cannot be written or would be overwritten. */
-function checkOutput(outPath: string, force: boolean, resume: boolean): void {
-  const dir = path.dirname(path.resolve(outPath));
-  if (!fs.existsSync(dir)) throw new InputError(`--output: folder ${dir} does not exist`);
-  // a real probe: permission bits say nothing for root, read-only mounts or full disks
-  const probe = path.join(dir, `.meltsweep-probe-${process.pid}`);
-  try {
-    fs.writeFileSync(probe, 'probe');
-  } catch (err) {
-    const code = (err as NodeJS.ErrnoException).code ?? String(err);
-    throw new InputError(`--output: cannot write in folder ${dir} (${code}); choose a writable folder`);
-  } finally {
-    fs.rmSync(probe, { force: true });
-  }
-  if (fs.existsSync(outPath) && !force && !resume) {
-    throw new InputError(`--output: ${outPath} already exists; use --force to replace it (or --resume to finish a partial run)`);
-  }
-}
-
-/** Remove temporary files left by a process killed while publishing. */
-function removeStaleTemporaries(outPath: string): void {
-  const dir = path.dirname(path.resolve(outPath));
-  const prefix = `${path.basename(outPath)}.tmp-`;
-  for (const name of fs.readdirSync(dir)) if (name.startsWith(prefix)) fs.rmSync(path.join(dir, name), { force: true });
-}
-
-/** Whether the published table(s) are a finished run of this sweep, rows and profile grid. */
-async function existingOutputMatches(outPath: string, manifest: PartialManifest, profilesPath: string | null): Promise<boolean> {
-  const matches = async (file: string, grid: string | undefined): Promise<boolean> => {
-    const md = (await readTableSchema(file)).metadata;
-    return (
-      md.get('meltsweep.sweep_hash') === manifest.sweepHash &&
-      md.get('meltsweep.row_range') === `${manifest.rowStart}-${manifest.rowEnd}` &&
-      md.get('meltsweep.profile_grid') === grid
-    );
-  };
-  try {
-    return (await matches(outPath, undefined)) && (profilesPath === null || (await matches(profilesPath, manifest.profileGrid)));
-  } catch {
-    return false;
-  }
 }
 
 /**
