@@ -8,7 +8,7 @@
  */
 import type { InputName } from '../physics/fields.js';
 import type { AxisSpec, SweepSpec } from '../spec/types.js';
-import { axisTitleOf, fixedValueLabel, formatNumber, shortDescription, fieldInfo } from './labels.js';
+import { axisTitleOf, fixedValueLabel, shortDescription, fieldInfo } from './labels.js';
 import type { ResultsColumns } from './results-columns.js';
 import type { PlotSpec } from './render.js';
 import { HEATMAP_SCHEME, NO_VALUE_FILL, PAPER } from './theme.js';
@@ -196,6 +196,30 @@ export function mapSubtitle(map: SweepMapData): string {
 /** Most cells that get their value written in them. */
 const MAX_LABELLED_CELLS = 64;
 
+/** Approximate width (px) of one character of the 9.5 px cell labels. */
+const LABEL_CHAR_PX = 5.8;
+
+/**
+ * Cells whose value, written with 3 significant digits, fits inside the cell as drawn (narrow
+ * cells of an uneven grid stay unlabelled rather than overprinting their neighbours).
+ */
+function labelsThatFit(map: SweepMapData, cells: readonly MapCell[], width: number, height: number): Array<MapCell & { label: string }> {
+  const t = (v: number, log: boolean): number => (log ? Math.log10(v) : v);
+  const span = (lo: number, hi: number): number => (hi > lo ? hi - lo : 1);
+  const xs = map.cells.flatMap((c) => [t(c.x0, map.xLog), t(c.x1, map.xLog)]);
+  const ys = map.cells.flatMap((c) => [t(c.y0, map.yLog), t(c.y1, map.yLog)]);
+  const pxX = width / span(Math.min(...xs), Math.max(...xs));
+  const pxY = height / span(Math.min(...ys), Math.max(...ys));
+  const out: Array<MapCell & { label: string }> = [];
+  for (const c of cells) {
+    const label = String(Number((c.value as number).toPrecision(3)));
+    const cellW = Math.abs(t(c.x1, map.xLog) - t(c.x0, map.xLog)) * pxX;
+    const cellH = Math.abs(t(c.y1, map.yLog) - t(c.y0, map.yLog)) * pxY;
+    if (cellW >= label.length * LABEL_CHAR_PX + 4 && cellH >= 12) out.push({ ...c, label });
+  }
+  return out;
+}
+
 /** The Vega-Lite spec of a heat map (viridis, grey for cells without a value). */
 export function sweepMapSpec(map: SweepMapData, options: { readonly width?: number; readonly height?: number } = {}): PlotSpec {
   const width = options.width ?? 300;
@@ -239,9 +263,10 @@ export function sweepMapSpec(map: SweepMapData, options: { readonly width?: numb
       },
     });
   }
-  if (withValue.length > 0 && map.cells.length <= MAX_LABELLED_CELLS) {
+  const labelled = map.cells.length <= MAX_LABELLED_CELLS ? labelsThatFit(map, withValue, width, height) : [];
+  if (labelled.length > 0) {
     layers.push({
-      data: { values: withValue.map((c) => ({ ...c, label: formatNumber(c.value as number) })) },
+      data: { values: labelled },
       mark: { type: 'text', fontSize: 9.5, baseline: 'middle', align: 'center' },
       encoding: {
         x: { field: 'x', type: 'quantitative', scale: xEnc.scale },
