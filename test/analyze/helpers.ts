@@ -8,7 +8,7 @@ export function ishigami(x1: number, x2: number, x3: number, a = 7, b = 0.1): nu
   return Math.sin(x1) + a * Math.sin(x2) ** 2 + b * x3 ** 4 * Math.sin(x1);
 }
 
-/** Analytic Ishigami indices, documented values (docs/physics.md: Ishigami & Homma 1990). */
+/** Analytic Ishigami indices for a = 7, b = 0.1 (Ishigami & Homma 1990; analytic values, from memory, as listed in docs/physics.md). */
 export const ISHIGAMI = {
   S1: [0.3139, 0.4424, 0] as const,
   ST: [0.5576, 0.4424, 0.2437] as const,
