@@ -13,6 +13,7 @@ import { DEFAULT_PARAMS } from '../src/physics/params.js';
 import type * as arrow from 'apache-arrow';
 import { chunkToRecordBatch } from '../src/io/arrow-batch.js';
 import { makeStatusDictionary, resultsSchema } from '../src/io/arrow-schema.js';
+import { decompression } from '../src/process/decompression.js';
 import { IpcFileSink } from '../src/io/ipc-file.js';
 import { SegmentStore } from '../src/io/segment-store.js';
 import type { ChunkResult } from '../src/run/compute-chunk.js';
@@ -28,7 +29,7 @@ function syntheticChunk(start: number, n: number): ChunkResult {
   for (let i = 0; i < n; i += 97) status[i] = 1;
   return {
     start, end: start + n,
-    points: { tp_c: col((i) => 1250 + (i % 250)), water_ppm: col((i) => i % 500), lid_km: col((i) => i % 30), upwelling_mm_yr: col(() => NaN), block: null },
+    points: { inputs: { tp_c: col((i) => 1250 + (i % 250)), water_ppm: col((i) => i % 500), lid_km: col((i) => i % 30), upwelling_mm_yr: col(() => NaN) }, block: null },
     status, numeric, reasons: [[0, 'synthetic reason']], computeMs: 0,
   };
 }
@@ -36,6 +37,7 @@ function syntheticChunk(start: number, n: number): ChunkResult {
 export async function benchWriter(rows = 2_000_000, chunkRows = 4096, repetitions = 3): Promise<{ batches: BenchResult; engine: BenchResult }> {
   const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'meltsweep-bench-writer-'));
   const schema = resultsSchema({
+    process: decompression.name, inputs: decompression.inputsFor({ params: {} }), results: decompression.results,
     sweepJson: '{}', sweepHash: 'bench', toolVersion: 'bench', params: DEFAULT_PARAMS, pointCount: rows,
     rowStart: 0, rowEnd: rows, shard: '1/1', blockLabels: null,
   });

@@ -96,3 +96,4 @@ export { inspectTable, formatInspection, type TableInspection, type InspectedCol
 // ---- errors and version --------------------------------------------------------------------
 export { InputError, RunError, EXIT_OK, EXIT_RUN_FAILED, EXIT_BAD_INPUT } from './errors.js';
 export { TOOL_VERSION } from './version.js';
+export * from './process/index.js';

@@ -3,9 +3,9 @@
  * batch without per-value builders: the typed arrays become the column buffers directly.
  */
 import * as arrow from 'apache-arrow';
-import { RESULT_NUMERIC_NAMES } from '../physics/fields.js';
+import { REASON_FIELD, STATUS_FIELD } from '../physics/fields.js';
 import type { ChunkResult } from '../run/compute-chunk.js';
-import { STATUS_TYPE } from './arrow-schema.js';
+import { BLOCK_FIELD, STATUS_TYPE } from './arrow-schema.js';
 
 /** Validity bitmap of a float column where NaN marks null; undefined when nothing is null. */
 export function nanValidity(values: Float64Array): { bitmap: Uint8Array | undefined; nullCount: number } {
@@ -84,17 +84,19 @@ export function chunkToRecordBatch(
 ): arrow.RecordBatch {
   const n = chunk.end - chunk.start;
   const ids = scenarioIds(chunk.start, n);
-  const children: arrow.Data[] = [
-    arrow.makeData({ type: new arrow.Int64(), length: n, nullCount: 0, data: ids }),
-    floatData(chunk.points.tp_c),
-    floatData(chunk.points.water_ppm),
-    floatData(chunk.points.lid_km),
-    floatData(chunk.points.upwelling_mm_yr),
-  ];
+  const children: arrow.Data[] = [arrow.makeData({ type: new arrow.Int64(), length: n, nullCount: 0, data: ids })];
+  // the inputs are the schema's fields after scenario_id, up to block / status
+  for (let f = 1; f < schema.fields.length; f++) {
+    const name = schema.fields[f].name;
+    if (name === BLOCK_FIELD.name || name === STATUS_FIELD.name) break;
+    children.push(floatData(chunk.points.inputs[name]));
+  }
   if (chunk.points.block) children.push(arrow.makeData({ type: new arrow.Uint8(), length: n, nullCount: 0, data: chunk.points.block }));
   children.push(statusData(new Int8Array(chunk.status.buffer, chunk.status.byteOffset, n), statusDictionary));
   children.push(sparseUtf8Data(n, chunk.reasons));
-  for (const name of RESULT_NUMERIC_NAMES) children.push(floatData(chunk.numeric[name]));
+  // the results are the schema's fields after reason (resultFieldInfos fixes the order)
+  const reasonAt = schema.fields.findIndex((f) => f.name === REASON_FIELD.name);
+  for (let f = reasonAt + 1; f < schema.fields.length; f++) children.push(floatData(chunk.numeric[schema.fields[f].name]));
   return new arrow.RecordBatch(schema, arrow.makeData({ type: new arrow.Struct(schema.fields), length: n, nullCount: 0, children }));
 }
 

@@ -1,10 +1,12 @@
 /**
- * The Arrow schema of a results table, derived from the field registry
- * (src/physics/fields.ts) plus the sweep's metadata. Units travel in field metadata,
+ * The Arrow schema of a results table, derived from the sweep's process (src/process/: its
+ * inputs and result fields) plus the sweep's metadata. Units travel in field metadata,
  * the sweep, its hash, the tool version and the model parameters in schema metadata.
  */
 import * as arrow from 'apache-arrow';
-import { INPUT_FIELDS, REASON_FIELD, RESULT_NUMERIC_FIELDS, STATUS_FIELD, type FieldInfo } from '../physics/fields.js';
+import { REASON_FIELD, STATUS_FIELD, type FieldInfo } from '../physics/fields.js';
+import { DEFAULT_PROCESS, processNamed, processNameOf } from '../process/registry.js';
+import type { SweepSpec } from '../spec/types.js';
 import { COLUMN_STATUSES } from '../physics/types.js';
 import { PARAM_INFO, PARAM_NAMES, type MeltParams } from '../physics/params.js';
 
@@ -20,6 +22,8 @@ export const META = {
   blockLabels: 'meltsweep.block_labels',
   table: 'meltsweep.table',
   profileGrid: 'meltsweep.profile_grid',
+  /** the process that computed the rows (absent in tables written before processes: decompression) */
+  process: 'meltsweep.process',
 } as const;
 
 export const STATUS_TYPE = new arrow.Dictionary(new arrow.Utf8(), new arrow.Int8(), 0, false);
@@ -30,12 +34,12 @@ export function makeStatusDictionary(): arrow.Vector<arrow.Utf8> {
 }
 
 export const SCENARIO_ID_FIELD: FieldInfo = {
-  name: 'scenario_id', unit: '', kind: 'int64', nullable: false,
+  name: 'scenario_id', unit: '', label: 'scenario', displayUnit: '', kind: 'int64', nullable: false,
   description: 'index of the scenario in the sweep (0-based; stable across shards and resumes)',
 };
 
 export const BLOCK_FIELD: FieldInfo = {
-  name: 'block', unit: '', kind: 'uint8', nullable: false,
+  name: 'block', unit: '', label: 'sample block', displayUnit: '', kind: 'uint8', nullable: false,
   description: 'saltelli sample block: 0 = A, 1 = B, 2 + i = AB_i (labels in schema metadata meltsweep.block_labels)',
 };
 
@@ -57,19 +61,33 @@ export function arrowField(info: FieldInfo): arrow.Field {
   return new arrow.Field(info.name, type, info.nullable, fieldMeta(info));
 }
 
-/** Column order of a results table. */
-export function resultFieldInfos(withBlock: boolean): FieldInfo[] {
+/** The columns a process gives a results table: its name, inputs and numeric results, in table order. */
+export interface TableFields {
+  readonly process: string;
+  readonly inputs: readonly FieldInfo[];
+  readonly results: readonly FieldInfo[];
+}
+
+/** The table fields of a spec: its process's inputs (under the spec's model options) and results. */
+export function tableFieldsOf(spec: SweepSpec): TableFields {
+  const name = processNameOf(spec);
+  const process = processNamed(name, 'model.process');
+  return { process: name, inputs: process.inputsFor(spec.model), results: process.results };
+}
+
+/** Column order of a results table: scenario_id, inputs, [block], status, reason, results. */
+export function resultFieldInfos(fields: TableFields, withBlock: boolean): FieldInfo[] {
   return [
     SCENARIO_ID_FIELD,
-    ...INPUT_FIELDS,
+    ...fields.inputs,
     ...(withBlock ? [BLOCK_FIELD] : []),
     STATUS_FIELD,
     REASON_FIELD,
-    ...RESULT_NUMERIC_FIELDS,
+    ...fields.results,
   ];
 }
 
-export interface ResultsTableMeta {
+export interface ResultsTableMeta extends TableFields {
   readonly sweepJson: string;
   readonly sweepHash: string;
   readonly toolVersion: string;
@@ -100,7 +118,8 @@ export function resultsSchema(meta: ResultsTableMeta): arrow.Schema {
     [META.shard, meta.shard],
   ]);
   if (meta.blockLabels) md.set(META.blockLabels, JSON.stringify(meta.blockLabels));
-  return new arrow.Schema(resultFieldInfos(meta.blockLabels !== null).map(arrowField), md);
+  md.set(META.process, meta.process);
+  return new arrow.Schema(resultFieldInfos(meta, meta.blockLabels !== null).map(arrowField), md);
 }
 
 /** Read back the metadata written by resultsSchema; throws with the missing key named. */
@@ -116,9 +135,15 @@ export function readResultsMeta(schema: arrow.Schema): ResultsTableMeta & { swee
   const params = Object.fromEntries(Object.entries(paramsMeta).map(([k, v]) => [k, v.value])) as unknown as MeltParams;
   const labels = md.get(META.blockLabels);
   const sweepJson = get(META.sweep);
+  const sweep = JSON.parse(sweepJson) as SweepSpec;
+  const processName = md.get(META.process) ?? DEFAULT_PROCESS;
+  const process = processNamed(processName, `schema metadata ${META.process}`);
   return {
+    process: processName,
+    inputs: process.inputsFor(sweep.model),
+    results: process.results,
     sweepJson,
-    sweep: JSON.parse(sweepJson) as unknown,
+    sweep,
     sweepHash: get(META.sweepHash),
     toolVersion: get(META.version),
     params,

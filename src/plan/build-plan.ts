@@ -3,8 +3,7 @@
  * defaults), and the frozen Plan object. A design only writes its swept columns.
  */
 import { InputError } from '../errors.js';
-import { INPUT_NAMES, type InputName } from '../physics/fields.js';
-import { INPUT_DEFAULTS } from '../spec/input-defaults.js';
+import { inputsOfSpec } from '../process/registry.js';
 import { MAX_POINTS } from '../spec/limits.js';
 import type { SweepSpec } from '../spec/types.js';
 import type { DesignLayout, Plan, PointBatch } from './types.js';
@@ -22,10 +21,11 @@ export interface PlanParts {
 }
 
 /** Value of an input that is not swept: the fixed value, else its default (NaN when none). */
-export function constantValue(spec: SweepSpec, name: InputName): number {
+export function constantValue(spec: SweepSpec, name: string): number {
   const given = spec.fixed[name];
   if (given !== undefined) return given;
-  return name === 'tp_c' ? Number.NaN : INPUT_DEFAULTS[name];
+  const def = inputsOfSpec(spec).find((i) => i.name === name)?.default;
+  return def === undefined || def === null ? Number.NaN : def;
 }
 
 /**
@@ -45,8 +45,9 @@ export function checkCount(count: number, spec: SweepSpec): void {
 export function buildPlan(parts: PlanParts): Plan {
   const { spec, count, layout, hasBlocks, fillSwept } = parts;
   checkCount(count, spec);
-  const swept = new Set<InputName>(spec.axes.map((a) => a.name));
-  const constants = INPUT_NAMES.filter((n) => !swept.has(n)).map((n) => [n, constantValue(spec, n)] as const);
+  const swept = new Set<string>(spec.axes.map((a) => a.name));
+  const inputNames = Object.freeze(inputsOfSpec(spec).map((i) => i.name));
+  const constants = inputNames.filter((n) => !swept.has(n)).map((n) => [n, constantValue(spec, n)] as const);
   const axisNames = Object.freeze(spec.axes.map((a) => a.name));
 
   const fill = (start: number, end: number, out: PointBatch): void => {
@@ -54,16 +55,18 @@ export function buildPlan(parts: PlanParts): Plan {
       throw new RangeError(`fill(${start}, ${end}): the range must satisfy 0 <= start <= end <= ${count}`);
     }
     const n = end - start;
-    for (const name of INPUT_NAMES) {
-      if (out[name].length < n) throw new RangeError(`fill(${start}, ${end}): out.${name} holds ${out[name].length} rows, needs ${n}`);
+    for (const name of inputNames) {
+      const col = out.inputs[name];
+      if (col === undefined) throw new RangeError(`fill(${start}, ${end}): out.inputs has no column ${name}`);
+      if (col.length < n) throw new RangeError(`fill(${start}, ${end}): out.inputs.${name} holds ${col.length} rows, needs ${n}`);
     }
     if (hasBlocks && (out.block === null || out.block.length < n)) {
       throw new RangeError(`fill(${start}, ${end}): a ${spec.design.kind} plan needs out.block with at least ${n} rows`);
     }
     if (n === 0) return;
-    for (const [name, value] of constants) out[name].fill(value, 0, n);
+    for (const [name, value] of constants) out.inputs[name].fill(value, 0, n);
     fillSwept(start, end, out);
   };
 
-  return Object.freeze({ count, design: spec.design.kind, axisNames, layout, hasBlocks, fill });
+  return Object.freeze({ count, design: spec.design.kind, axisNames, inputNames, layout, hasBlocks, fill });
 }

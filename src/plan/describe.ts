@@ -2,8 +2,7 @@
  * Human-readable summary of a plan, for `meltsweep plan`: point count, design, each axis with
  * its values or sampled range, the constant inputs and the model choices.
  */
-import { INPUT_NAMES } from '../physics/fields.js';
-import { INPUT_RANGES } from '../physics/ranges.js';
+import { inputsOfSpec, processNameOf, processOfSpec, DEFAULT_PROCESS } from '../process/registry.js';
 import type { AxisSpec, SweepSpec } from '../spec/types.js';
 import type { Plan } from './types.js';
 
@@ -44,7 +43,7 @@ function designLine(spec: SweepSpec, plan: Plan): string {
 }
 
 function axisLine(axis: AxisSpec, spec: SweepSpec, width: number): string {
-  const unit = INPUT_RANGES[axis.name].unit;
+  const unit = inputsOfSpec(spec).find((i) => i.name === axis.name)?.unit ?? '';
   const label = `  ${axis.name.padEnd(width)}  `;
   if (spec.design.kind === 'grid') {
     const spacing = axis.scale === 'log' ? ' (log spacing)' : '';
@@ -59,7 +58,8 @@ function axisLine(axis: AxisSpec, spec: SweepSpec, width: number): string {
  * inputs, model, and notes (e.g. a Sobol size that is not a power of two).
  */
 export function describePlan(spec: SweepSpec, plan: Plan): string[] {
-  const width = Math.max(...INPUT_NAMES.map((n) => n.length));
+  const inputs = inputsOfSpec(spec);
+  const width = Math.max(...inputs.map((i) => i.name.length));
   const lines: string[] = [];
   lines.push(`sweep: ${spec.name}`);
   lines.push(`points: ${plan.count}`);
@@ -69,18 +69,21 @@ export function describePlan(spec: SweepSpec, plan: Plan): string[] {
     for (const axis of spec.axes) lines.push(axisLine(axis, spec, width));
   }
   const swept = new Set(plan.axisNames);
-  const constants = INPUT_NAMES.filter((n) => !swept.has(n));
+  const constants = inputs.filter((i) => !swept.has(i.name));
   if (constants.length > 0) {
     lines.push('constant inputs:');
-    for (const name of constants) {
-      const v = spec.fixed[name];
-      const shown = v === undefined ? 'not given (rows carry NaN)' : `${formatValue(v)} ${INPUT_RANGES[name].unit}`;
-      lines.push(`  ${name.padEnd(width)}  ${shown}`);
+    for (const input of constants) {
+      const v = spec.fixed[input.name];
+      const shown = v === undefined ? 'not given (rows carry NaN)' : `${formatValue(v)} ${input.unit}`;
+      lines.push(`  ${input.name.padEnd(width)}  ${shown}`);
     }
   }
   const m = spec.model;
   const params = Object.entries(m.params).map(([k, v]) => `${k} = ${formatValue(v)}`);
-  lines.push(`model: thermal ${m.thermal}, water ${m.water}, step ${formatValue(m.step_gpa)} GPa, ${params.length === 0 ? 'published parameters' : `parameters ${params.join(', ')}`}`);
+  const process = processOfSpec(spec);
+  const options = process.model.summary?.(m) ?? process.model.keys.filter((k) => k !== 'params' && m[k] !== undefined).map((k) => `${k} ${String(m[k])}`).join(', ');
+  const processText = processNameOf(spec) === DEFAULT_PROCESS ? '' : `process ${process.name}, `;
+  lines.push(`model: ${processText}${options === '' ? '' : `${options}, `}${params.length === 0 ? 'published parameters' : `parameters ${params.join(', ')}`}`);
   const d = spec.design;
   if (d.kind === 'sobol' && !isPowerOfTwo(d.samples)) {
     lines.push(`note: ${d.samples} samples is not a power of two; Sobol points are best balanced at powers of two (e.g. ${2 ** Math.round(Math.log2(d.samples))})`);

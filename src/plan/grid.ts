@@ -31,7 +31,7 @@ export function planGrid(spec: SweepSpec): Plan {
       for (let a = k - 1; a >= 0; a--) {
         const size = sizes[a];
         const vals = values[a];
-        const col = out[spec.axes[a].name];
+        const col = out.inputs[spec.axes[a].name];
         let idx = Math.floor(start / stride) % size;
         let row = 0;
         let run = stride - (start % stride);

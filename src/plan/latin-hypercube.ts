@@ -7,7 +7,7 @@
  * seed gives the same points on every machine and for any split of the index range.
  * Strata are equal in u, so on a log axis they are equal in ln x.
  */
-import { INPUT_NAMES } from '../physics/fields.js';
+import { inputsOfSpec } from '../process/registry.js';
 import type { SweepSpec } from '../spec/types.js';
 import { buildPlan } from './build-plan.js';
 import { deriveKey, hashUnit } from './mix.js';
@@ -24,8 +24,10 @@ export function planLatinHypercube(spec: SweepSpec): Plan {
   const design = spec.design;
   if (design.kind !== 'latin-hypercube') throw new TypeError(`planLatinHypercube needs a latin-hypercube design, got ${design.kind}`);
   const n = design.samples;
+  // the tag of an input is its position in the process's input list (decompression: tp_c 0 .. upwelling_mm_yr 3)
+  const inputNames = inputsOfSpec(spec).map((i) => i.name);
   const axes = spec.axes.map((axis) => {
-    const tag = INPUT_NAMES.indexOf(axis.name);
+    const tag = inputNames.indexOf(axis.name);
     return {
       name: axis.name,
       perm: makePermutation(n, deriveKey(design.seed, STREAM_PERMUTATION, tag)),
@@ -41,7 +43,7 @@ export function planLatinHypercube(spec: SweepSpec): Plan {
     hasBlocks: false,
     fillSwept(start, end, out) {
       for (const { name, perm, jitterKey, axis } of axes) {
-        const col = out[name];
+        const col = out.inputs[name];
         for (let i = start, o = 0; i < end; i++, o++) col[o] = (perm.apply(i) + hashUnit(jitterKey, i)) / n;
         mapUnitsToAxis(axis, col, 0, end - start);
       }

@@ -44,7 +44,7 @@ export function planSaltelli(spec: SweepSpec): Plan {
         const b = Math.floor(r / base);
         const segEnd = Math.min(end, (b + 1) * base);
         const j0 = r - b * base;
-        const columns: SobolColumn[] = spec.axes.map((axis, a) => ({ dim: saltelliDimension(b, a, k), axis, out: out[axis.name] }));
+        const columns: SobolColumn[] = spec.axes.map((axis, a) => ({ dim: saltelliDimension(b, a, k), axis, out: out.inputs[axis.name] }));
         fillSobolColumns(table, design.skip + j0, segEnd - r, columns, r - start);
         block.fill(b, r - start, segEnd - start);
         r = segEnd;

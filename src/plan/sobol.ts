@@ -92,7 +92,7 @@ export function planSobol(spec: SweepSpec): Plan {
     layout: Object.freeze({ kind: 'sobol', samples: design.samples, inputs }),
     hasBlocks: false,
     fillSwept(start, end, out) {
-      const columns = spec.axes.map((axis, d) => ({ dim: d, axis, out: out[axis.name] }));
+      const columns = spec.axes.map((axis, d) => ({ dim: d, axis, out: out.inputs[axis.name] }));
       fillSobolColumns(table, design.skip + start, end - start, columns, 0);
     },
   });

@@ -11,6 +11,8 @@ import { InputError } from '../errors.js';
 import { writeFileAtomic } from '../io/ipc-file.js';
 import { defaultModel } from '../physics/column.js';
 import type { ModelOptions } from '../physics/types.js';
+import { DEFAULT_PROCESS } from '../process/registry.js';
+import type { DecompressionModelSpec } from '../spec/validate-model.js';
 import { analyzeResultsFile } from '../run/sensitivity-file.js';
 import { columnDiagramSpec } from './column-diagram.js';
 import { columnDiagramData, scenarioLabels, type DiagramScenario } from './column-diagram-data.js';
@@ -53,8 +55,8 @@ export function representativeRows(table: ResultsColumns, output: string): { rea
 }
 
 /** The model a sweep's rows were computed with (parameters as stored in the file). */
-function sweepModel(spec: { readonly model: { readonly thermal: ModelOptions['thermal']; readonly water: ModelOptions['water']; readonly step_gpa: number } }, params: ModelOptions['params']): ModelOptions {
-  return defaultModel({ thermal: spec.model.thermal, water: spec.model.water, stepGpa: spec.model.step_gpa, params });
+function sweepModel(model: DecompressionModelSpec, params: ModelOptions['params']): ModelOptions {
+  return defaultModel({ thermal: model.thermal, water: model.water, stepGpa: model.step_gpa, params });
 }
 
 /**
@@ -65,7 +67,7 @@ export async function buildHtmlReport(file: string, options: ReportOptions = {})
   const info = await readResultsInfo(file);
   const { meta, spec } = info;
   const opts = resolveReportOptions(options, spec, info.outputsWithValues, file);
-  const table = await readResultsColumns(file, opts.outputs, meta.rowEnd - meta.rowStart);
+  const table = await readResultsColumns(file, opts.outputs, meta.rowEnd - meta.rowStart, meta.inputs.map((i) => i.name));
   const notes = [...opts.notes];
   const analysisNotes: string[] = [];
   const warnings: string[] = [];
@@ -111,7 +113,8 @@ export async function buildHtmlReport(file: string, options: ReportOptions = {})
   // representative columns
   const columns: string[] = [];
   const repOutput = opts.outputs.includes('crust_km') ? 'crust_km' : opts.outputs[0];
-  if (repOutput !== undefined) {
+  // the column diagram draws decompression columns; other processes bring their own pictures
+  if (repOutput !== undefined && meta.process === DEFAULT_PROCESS) {
     const picks = representativeRows(table, repOutput);
     if (picks.length > 0) {
       const scenarios = picks.map((p) => ({
@@ -126,7 +129,7 @@ export async function buildHtmlReport(file: string, options: ReportOptions = {})
         scenario: scenarios[k],
         label: `${p.which} ${repOutput} ${formatNumber(table.outputs[repOutput][p.row])} ${unit}: ${auto[k]}`,
       }));
-      const data = columnDiagramData(items, sweepModel(spec, meta.params));
+      const data = columnDiagramData(items, sweepModel(spec.model as DecompressionModelSpec, meta.params));
       const plot = columnDiagramSpec(data, { title: `Representative columns`, subtitle: `smallest, median and largest ${repOutput} among ok rows` });
       columns.push(await figure('column', repOutput, plot, `Temperature and melt fraction against depth for the ok rows with the smallest, median and largest ${repOutput}. Thin line: solid adiabat; thick: melting path; dashed: conductive profile; shaded: lid and melting interval.`));
     } else {

@@ -1,15 +1,19 @@
 /**
- * Axis titles, legend titles and scenario labels for the pictures, all derived from the field
- * registry (src/physics/fields.ts): a unit is never typed here, it is looked up.
+ * Axis titles, legend titles and scenario labels for the pictures, all derived from the process
+ * registry (src/process/; decompression's fields are in src/physics/fields.ts): a unit is never
+ * typed here, it is looked up.
  */
-import { INPUT_FIELDS, PROFILE_FIELDS, RESULT_NUMERIC_FIELDS, type FieldInfo, type InputName } from '../physics/fields.js';
+import { PROFILE_FIELDS, type FieldInfo } from '../physics/fields.js';
+import { allProcesses } from '../process/registry.js';
 
-/** Every field a picture can show: scenario inputs, numeric outputs and profile columns. */
-const REGISTRY: readonly FieldInfo[] = [...INPUT_FIELDS, ...RESULT_NUMERIC_FIELDS];
+/** Every field a picture can show: the inputs and numeric outputs of every process (first process first). */
+function registryFields(): FieldInfo[] {
+  return allProcesses().flatMap((p) => [...p.inputsFor({ ...p.model.defaults, params: {} }), ...p.results]);
+}
 
 /** A registry entry by name: inputs and outputs first, then profile columns. @throws Error for an unknown name */
 export function fieldInfo(name: string): FieldInfo {
-  const f = REGISTRY.find((x) => x.name === name) ?? PROFILE_FIELDS.find((x) => x.name === name);
+  const f = registryFields().find((x) => x.name === name) ?? PROFILE_FIELDS.find((x) => x.name === name);
   if (f === undefined) throw new Error(`report: ${name} is not in the field registry`);
   return f;
 }
@@ -46,7 +50,7 @@ export function compactTitleOf(name: string): string {
 }
 
 /** Short names of the scenario inputs for legends (the trade's symbols; units come from the registry). */
-const INPUT_SYMBOLS: Readonly<Record<InputName, string>> = {
+const INPUT_SYMBOLS: Readonly<Record<string, string>> = {
   tp_c: 'Tp',
   water_ppm: 'water',
   lid_km: 'lid',
@@ -63,9 +67,9 @@ export function formatNumber(v: number): string {
 }
 
 /** "Tp 1350 degC" for one input value (unit from the registry). */
-export function inputValueLabel(name: InputName, value: number): string {
+export function inputValueLabel(name: string, value: number): string {
   const unit = fieldInfo(name).unit;
-  return `${INPUT_SYMBOLS[name]} ${formatNumber(value)}${unit === '' ? '' : ` ${unit}`}`;
+  return `${INPUT_SYMBOLS[name] ?? name} ${formatNumber(value)}${unit === '' ? '' : ` ${unit}`}`;
 }
 
 /** "lid_km = 10 km" for a fixed value of a swept input (unit from the registry). */

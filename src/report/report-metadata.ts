@@ -3,7 +3,7 @@
  * many rows ended in each status. Units come from the field and parameter registries.
  */
 import type { ResultsTableMeta } from '../io/arrow-schema.js';
-import { INPUT_NAMES } from '../physics/fields.js';
+import { inputsOfSpec, processOfSpec } from '../process/registry.js';
 import { PARAM_INFO, PARAM_NAMES } from '../physics/params.js';
 import { COLUMN_STATUSES } from '../physics/types.js';
 import type { SweepSpec } from '../spec/types.js';
@@ -40,6 +40,13 @@ function listValues(values: readonly number[]): string {
   return shown.join(', ');
 }
 
+/** The process and its options in words ("thermal auto, water batch, step 0.05 GPa" for decompression). */
+function modelText(spec: SweepSpec): string {
+  const process = processOfSpec(spec);
+  const options = process.model.summary?.(spec.model) ?? '';
+  return process === processOfSpec({ ...spec, model: { params: {} } }) ? options : `process ${process.name}${options === '' ? '' : `, ${options}`}`;
+}
+
 /** The HTML of the Run section. */
 export function metadataSection(meta: ResultsTableMeta, spec: SweepSpec, table: ResultsColumns): string {
   const rowsInFile = meta.rowEnd - meta.rowStart;
@@ -50,7 +57,7 @@ export function metadataSection(meta: ResultsTableMeta, spec: SweepSpec, table: 
       ['design', designText(spec)],
       ['points in the sweep', String(meta.pointCount)],
       ['rows in this file', rowsInFile === meta.pointCount ? String(rowsInFile) : `${rowsInFile} (rows ${meta.rowStart}-${meta.rowEnd}, shard ${meta.shard})`],
-      ['model', `thermal ${spec.model.thermal}, water ${spec.model.water}, step ${formatNumber(spec.model.step_gpa)} GPa`],
+      ['model', modelText(spec)],
     ],
     'data kv',
   );
@@ -61,7 +68,7 @@ export function metadataSection(meta: ResultsTableMeta, spec: SweepSpec, table: 
   const swept = new Set<string>(spec.axes.map((a) => a.name));
   const fixed = htmlTable(
     ['input', 'value', 'unit'],
-    INPUT_NAMES.filter((n) => !swept.has(n)).map((n) => {
+    inputsOfSpec(spec).map((i) => i.name).filter((n) => !swept.has(n)).map((n) => {
       const v = spec.fixed[n];
       return [n, v === undefined ? 'not given' : formatNumber(v), fieldInfo(n).unit];
     }),

@@ -3,7 +3,7 @@
  * InputError naming the option, the value and what is allowed.
  */
 import { InputError } from '../errors.js';
-import { INPUT_NAMES, RESULT_NUMERIC_NAMES, type InputName } from '../physics/fields.js';
+import { inputsOfSpec, processOfSpec } from '../process/registry.js';
 import type { SweepSpec } from '../spec/types.js';
 import { fieldInfo, formatNumber } from './labels.js';
 
@@ -32,11 +32,11 @@ export const DEFAULT_REPORT_OUTPUTS: readonly string[] = ['crust_km', 'f_max', '
 export interface ResolvedReportOptions {
   readonly outputs: readonly string[];
   /** null when the sweep has no swept input */
-  readonly x: InputName | null;
+  readonly x: string | null;
   /** null when the sweep has fewer than two swept inputs */
-  readonly y: InputName | null;
+  readonly y: string | null;
   /** slice values of the other swept inputs (grid designs) */
-  readonly at: Partial<Record<InputName, number>>;
+  readonly at: Partial<Record<string, number>>;
   /** what the defaults or the design changed, in plain words */
   readonly notes: readonly string[];
 }
@@ -58,12 +58,12 @@ export function parseAtOption(raw: string): Record<string, number> {
   return out;
 }
 
-function sweptCheck(option: string, name: string, spec: SweepSpec): InputName {
+function sweptCheck(option: string, name: string, spec: SweepSpec): string {
   const swept = spec.axes.map((a) => a.name);
-  if ((swept as readonly string[]).includes(name)) return name as InputName;
+  if ((swept as readonly string[]).includes(name)) return name;
   const allowed = swept.length > 0 ? `swept inputs: ${swept.join(', ')}` : 'this sweep has no swept input';
-  if ((INPUT_NAMES as readonly string[]).includes(name)) {
-    const v = spec.fixed[name as InputName];
+  if (inputsOfSpec(spec).some((i) => i.name === name)) {
+    const v = spec.fixed[name];
     const held = v === undefined ? 'not given' : `held at ${formatNumber(v)} ${fieldInfo(name).unit}`;
     throw new InputError(`${option}: ${name} is not swept in this sweep (${held}); ${allowed}`);
   }
@@ -79,6 +79,10 @@ function sweptCheck(option: string, name: string, spec: SweepSpec): InputName {
 export function resolveReportOptions(o: ReportOptions, spec: SweepSpec, outputsWithValues: readonly string[], file: string): ResolvedReportOptions {
   const notes: string[] = [];
   const problems: string[] = [];
+  const RESULT_NUMERIC_NAMES = processOfSpec(spec).results.map((r) => r.name);
+  // the default outputs of the process: the usual ones it has, else all of its outputs
+  const usual = DEFAULT_REPORT_OUTPUTS.filter((n) => RESULT_NUMERIC_NAMES.includes(n));
+  const defaults = usual.length > 0 ? usual : RESULT_NUMERIC_NAMES;
   let outputs: string[];
   if (o.outputs !== undefined) {
     outputs = [];
@@ -89,13 +93,13 @@ export function resolveReportOptions(o: ReportOptions, spec: SweepSpec, outputsW
     }
     if (o.outputs.length === 0) problems.push(`--outputs: the list is empty; allowed: ${RESULT_NUMERIC_NAMES.join(', ')}`);
   } else {
-    outputs = DEFAULT_REPORT_OUTPUTS.filter((n) => outputsWithValues.includes(n));
-    const dropped = DEFAULT_REPORT_OUTPUTS.filter((n) => !outputsWithValues.includes(n));
+    outputs = defaults.filter((n) => outputsWithValues.includes(n));
+    const dropped = defaults.filter((n) => !outputsWithValues.includes(n));
     if (dropped.length > 0) notes.push(`left out for holding no values: ${dropped.join(', ')}`);
   }
 
   const swept = spec.axes.map((a) => a.name);
-  const attempt = (fn: () => InputName): InputName | null => {
+  const attempt = (fn: () => string): string | null => {
     try {
       return fn();
     } catch (err) {
@@ -104,8 +108,8 @@ export function resolveReportOptions(o: ReportOptions, spec: SweepSpec, outputsW
       return null;
     }
   };
-  let x: InputName | null = o.x !== undefined ? attempt(() => sweptCheck('--x', o.x as string, spec)) : (swept[0] ?? null);
-  let y: InputName | null = o.y !== undefined ? attempt(() => sweptCheck('--y', o.y as string, spec)) : (swept.find((n) => n !== x) ?? null);
+  let x: string | null = o.x !== undefined ? attempt(() => sweptCheck('--x', o.x as string, spec)) : (swept[0] ?? null);
+  let y: string | null = o.y !== undefined ? attempt(() => sweptCheck('--y', o.y as string, spec)) : (swept.find((n) => n !== x) ?? null);
   if (o.x === undefined && y !== null && x === y) x = swept.find((n) => n !== y) ?? null;
   if (x !== null && x === y) {
     problems.push(`--x and --y: both are ${x}; choose two different swept inputs (${swept.join(', ')})`);
@@ -113,7 +117,7 @@ export function resolveReportOptions(o: ReportOptions, spec: SweepSpec, outputsW
   }
   if (swept.length === 1 && x !== null) notes.push(`one swept input (${x}): no maps (they need two); the main-effect curves show each output along it`);
 
-  const at: Partial<Record<InputName, number>> = {};
+  const at: Partial<Record<string, number>> = {};
   for (const [name, value] of Object.entries(o.at ?? {})) {
     const input = attempt(() => sweptCheck('--at', name, spec));
     if (input === null) continue;

@@ -1,5 +1,5 @@
 /**
- * A results file read into plain typed columns for the pictures: the four inputs, the chosen
+ * A results file read into plain typed columns for the pictures: the process's inputs, the chosen
  * numeric outputs (NaN for null) and the status of every row, batch by batch (memory: 8 bytes per
  * value and column; nothing else is kept).
  */
@@ -8,14 +8,14 @@ import fs from 'node:fs';
 import { InputError } from '../errors.js';
 import { readResultsMeta, type ResultsTableMeta } from '../io/arrow-schema.js';
 import { readTableBatches, readTableSchema } from '../io/table-reader.js';
-import { INPUT_NAMES, RESULT_NUMERIC_NAMES, type InputName } from '../physics/fields.js';
 import { COLUMN_STATUSES, type ColumnStatus } from '../physics/types.js';
 import type { SweepSpec } from '../spec/types.js';
 
 /** Columns of a results file, in row order. */
 export interface ResultsColumns {
   readonly rows: number;
-  readonly inputs: Readonly<Record<InputName, Float64Array>>;
+  /** every input of the table's process, by name */
+  readonly inputs: Readonly<Record<string, Float64Array>>;
   /** the requested outputs; NaN where the value is null */
   readonly outputs: Readonly<Record<string, Float64Array>>;
   /** index into COLUMN_STATUSES of each row */
@@ -40,15 +40,16 @@ export async function readResultsInfo(file: string, argName = 'RESULTS'): Promis
   } catch (err) {
     throw new InputError(`${argName}: ${file} is not a meltsweep results table (${err instanceof Error ? err.message : String(err)})`);
   }
+  const names = meta.results.map((r) => r.name);
   const seen = new Set<string>();
   for await (const batch of readTableBatches(file)) {
-    for (const n of RESULT_NUMERIC_NAMES) {
+    for (const n of names) {
       const col = batch.getChild(n);
       if (col !== null && col.nullCount < col.length) seen.add(n);
     }
-    if (seen.size === RESULT_NUMERIC_NAMES.length) break;
+    if (seen.size === names.length) break;
   }
-  return { meta, spec: meta.sweep as SweepSpec, outputsWithValues: RESULT_NUMERIC_NAMES.filter((n) => seen.has(n)) };
+  return { meta, spec: meta.sweep as SweepSpec, outputsWithValues: names.filter((n) => seen.has(n)) };
 }
 
 function copyFloat(target: Float64Array, offset: number, vector: arrow.Vector | null, n: number): void {
@@ -69,15 +70,15 @@ function copyFloat(target: Float64Array, offset: number, vector: arrow.Vector | 
  * @param rows the row count from the file's metadata (rowEnd - rowStart)
  * @throws InputError when the file holds a different number of rows
  */
-export async function readResultsColumns(file: string, outputs: readonly string[], rows: number): Promise<ResultsColumns> {
-  const inputs = Object.fromEntries(INPUT_NAMES.map((n) => [n, new Float64Array(rows)])) as Record<InputName, Float64Array>;
+export async function readResultsColumns(file: string, outputs: readonly string[], rows: number, inputNames: readonly string[]): Promise<ResultsColumns> {
+  const inputs = Object.fromEntries(inputNames.map((n) => [n, new Float64Array(rows)]));
   const outs = Object.fromEntries(outputs.map((n) => [n, new Float64Array(rows)]));
   const status = new Uint8Array(rows);
   const statusCounts = Object.fromEntries(COLUMN_STATUSES.map((s) => [s, 0])) as Record<ColumnStatus, number>;
   let offset = 0;
   for await (const batch of readTableBatches(file)) {
     if (offset + batch.numRows > rows) throw new InputError(`${file}: holds more rows than its metadata says (${rows})`);
-    for (const n of INPUT_NAMES) copyFloat(inputs[n], offset, batch.getChild(n), batch.numRows);
+    for (const n of inputNames) copyFloat(inputs[n], offset, batch.getChild(n), batch.numRows);
     for (const n of outputs) copyFloat(outs[n], offset, batch.getChild(n), batch.numRows);
     const col = batch.getChild('status');
     for (let i = 0; i < batch.numRows; i++) {

@@ -4,7 +4,6 @@
  * each input). The numbers come from the sensitivity analysis (src/analyze), unchanged.
  */
 import type { MainEffectCurve, SensitivityRecord } from '../analyze/types.js';
-import type { InputName } from '../physics/fields.js';
 import { compactTitleOf, fieldInfo, shortDescription } from './labels.js';
 import type { PlotSpec } from './render.js';
 import { INK, MEASURE_COLOURS } from './theme.js';
@@ -93,7 +92,7 @@ export function mainEffectsSpec(curves: readonly MainEffectCurve[], output: stri
     const points = c.x.map((x, i) => ({ x, mean: c.mean[i], count: c.count[i] })).filter((q) => Number.isFinite(q.mean) && Number.isFinite(q.x));
     const log = logInputs.has(c.input) && points.every((q) => q.x > 0);
     const enc = {
-      x: { field: 'x', type: 'quantitative' as const, title: compactTitleOf(c.input as InputName), scale: { type: log ? ('log' as const) : ('linear' as const), zero: false, nice: true }, axis: { tickCount: 4, grid: false, labelOverlap: 'greedy' as const, labelFlush: true } },
+      x: { field: 'x', type: 'quantitative' as const, title: compactTitleOf(c.input), scale: { type: log ? ('log' as const) : ('linear' as const), zero: false, nice: true }, axis: { tickCount: 4, grid: false, labelOverlap: 'greedy' as const, labelFlush: true } },
       y: { field: 'mean', type: 'quantitative' as const, title: k === 0 ? yTitle : null, scale: { zero: false }, axis: { tickCount: 5, grid: true, labels: k === 0 } },
     };
     return {

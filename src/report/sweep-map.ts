@@ -6,7 +6,6 @@
  * - other designs: the samples binned onto a regular 2D grid over the two inputs' ranges, each
  *   cell the mean of the finite values in it (every other input varies inside a cell).
  */
-import type { InputName } from '../physics/fields.js';
 import type { AxisSpec, SweepSpec } from '../spec/types.js';
 import { axisTitleOf, fixedValueLabel, shortDescription, fieldInfo } from './labels.js';
 import type { ResultsColumns } from './results-columns.js';
@@ -29,14 +28,14 @@ export interface MapCell {
 /** A map ready to draw. */
 export interface SweepMapData {
   readonly output: string;
-  readonly x: InputName;
-  readonly y: InputName;
+  readonly x: string;
+  readonly y: string;
   readonly xLog: boolean;
   readonly yLog: boolean;
   /** 'slice': a grid slice at fixed values of the other inputs; 'binned': bin means of samples */
   readonly mode: 'slice' | 'binned';
   /** where the other swept inputs sit (slice mode) */
-  readonly at: readonly { readonly name: InputName; readonly value: number }[];
+  readonly at: readonly { readonly name: string; readonly value: number }[];
   readonly cells: readonly MapCell[];
 }
 
@@ -56,7 +55,7 @@ export function cellEdges(sorted: readonly number[], log: boolean): number[] {
   return edges;
 }
 
-function axisOf(spec: SweepSpec, name: InputName): AxisSpec {
+function axisOf(spec: SweepSpec, name: string): AxisSpec {
   const a = spec.axes.find((x) => x.name === name);
   if (a === undefined) throw new Error(`report: ${name} is not a swept input`);
   return a;
@@ -83,7 +82,7 @@ function close(a: number, b: number): boolean {
  * The slice of a grid sweep over inputs x and y with every other swept input at `at` (values are
  * snapped to the nearest grid value; absent ones default to the middle value).
  */
-export function gridSliceMap(table: ResultsColumns, spec: SweepSpec, output: string, x: InputName, y: InputName, at: Partial<Record<InputName, number>> = {}): SweepMapData {
+export function gridSliceMap(table: ResultsColumns, spec: SweepSpec, output: string, x: string, y: string, at: Partial<Record<string, number>> = {}): SweepMapData {
   const ax = axisOf(spec, x);
   const ay = axisOf(spec, y);
   const others = spec.axes.filter((a) => a.name !== x && a.name !== y).map((a) => ({ name: a.name, value: nearestValue(a.values, at[a.name] ?? middleValue(a.values)) }));
@@ -136,7 +135,7 @@ export const MAX_MAP_CELLS = 10_000;
  * (log-spaced on log axes); each cell holds the mean of the finite output values in it. `include`
  * restricts the rows (default: every row).
  */
-export function binnedMap(table: ResultsColumns, spec: SweepSpec, output: string, x: InputName, y: InputName, bins = defaultBins(table.rows), include: (row: number) => boolean = () => true): SweepMapData {
+export function binnedMap(table: ResultsColumns, spec: SweepSpec, output: string, x: string, y: string, bins = defaultBins(table.rows), include: (row: number) => boolean = () => true): SweepMapData {
   const ax = axisOf(spec, x);
   const ay = axisOf(spec, y);
   const edgesOf = (a: AxisSpec): number[] => {

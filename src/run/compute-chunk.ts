@@ -3,15 +3,14 @@
  * return the results as struct-of-arrays typed arrays (moved, not copied, out of a worker).
  * Pure apart from the clock: the same (spec, range) gives the same arrays on any thread.
  */
-import { RESULT_NUMERIC_NAMES, type ResultNumericName } from '../physics/fields.js';
-import { resolveParams } from '../physics/params.js';
-import { meltColumn, resolveThermalModel } from '../physics/column.js';
-import { COLUMN_STATUSES, type ColumnResult, type ColumnStatus, type ModelOptions, type Scenario } from '../physics/types.js';
+import { COLUMN_STATUSES, type ColumnStatus } from '../physics/types.js';
 import { allocatePointBatch, planSweep } from '../plan/index.js';
 import type { PointBatch, Plan } from '../plan/types.js';
+import { processOfSpec } from '../process/registry.js';
+import type { AnyProcess, ProcessResult } from '../process/types.js';
 import type { SweepSpec } from '../spec/types.js';
 import { profileGridPressures, type ProfileGrid } from './profile-grid.js';
-import { allocateProfileSamples, clearProfileRow, sampleColumnProfile, type ProfileSamples } from './profile-sampling.js';
+import { allocateProfileSamples, clearProfileRow, type ProfileSamples } from './profile-sampling.js';
 
 export const STATUS_CODE: Readonly<Record<ColumnStatus, number>> = Object.freeze(
   Object.fromEntries(COLUMN_STATUSES.map((s, i) => [s, i])) as Record<ColumnStatus, number>,
@@ -25,7 +24,8 @@ export interface ChunkResult {
   readonly points: PointBatch;
   /** index into COLUMN_STATUSES */
   readonly status: Uint8Array;
-  readonly numeric: Readonly<Record<ResultNumericName, Float64Array>>;
+  /** one array per result field of the sweep's process, by name */
+  readonly numeric: Readonly<Record<string, Float64Array>>;
   /** reasons of failed / out-of-range rows, by offset within the chunk */
   readonly reasons: ReadonlyArray<readonly [number, string]>;
   /** thread CPU time spent on the columns, ms */
@@ -38,7 +38,11 @@ export interface ChunkResult {
 export interface ChunkContext {
   readonly spec: SweepSpec;
   readonly plan: Plan;
-  readonly model: ModelOptions;
+  /** the sweep's process and its runtime model (from process.resolveModel) */
+  readonly process: AnyProcess;
+  readonly model: unknown;
+  /** the process's result field names, in table order */
+  readonly resultNames: readonly string[];
   /** the profile grid's pressures (GPa, ascending), or null when no profile table is written */
   readonly profilePressures: Float64Array | null;
 }
@@ -46,60 +50,66 @@ export interface ChunkContext {
 /**
  * Everything computeChunk needs for a sweep, built once per thread. With a profile grid the
  * columns keep their profile arrays (withProfile) and are sampled onto the grid.
+ * @throws Error when profiles are asked of a process that writes no profile table
  */
 export function makeChunkContext(spec: SweepSpec, profiles?: ProfileGrid): ChunkContext {
-  const params = resolveParams(spec.model.params);
+  const process = processOfSpec(spec);
   const withProfile = profiles !== undefined;
+  if (withProfile && process.profileTable === undefined) throw new Error(`process ${process.name} writes no profile table`);
   return {
     spec,
     plan: planSweep(spec),
-    model: { thermal: spec.model.thermal, water: spec.model.water, params, stepGpa: spec.model.step_gpa, withProfile },
+    process,
+    model: process.resolveModel(spec.model, { withProfile }),
+    resultNames: process.results.map((r) => r.name),
     profilePressures: withProfile ? profileGridPressures(profiles) : null,
   };
 }
 
-function allocateNumeric(n: number): Record<ResultNumericName, Float64Array> {
-  const out = {} as Record<ResultNumericName, Float64Array>;
-  for (const name of RESULT_NUMERIC_NAMES) out[name] = new Float64Array(n);
+function allocateNumeric(names: readonly string[], n: number): Record<string, Float64Array> {
+  const out: Record<string, Float64Array> = {};
+  for (const name of names) out[name] = new Float64Array(n);
   return out;
 }
 
 /** An ok row must hold finite numbers: anything else is demoted to failed with the field named. */
-function firstNonFinite(r: ColumnResult): ResultNumericName | null {
-  for (const name of RESULT_NUMERIC_NAMES) {
-    const v = r[name];
-    if (v !== null && !Number.isFinite(v)) return name;
+function firstNonFinite(r: ProcessResult, names: readonly string[]): string | null {
+  for (const name of names) {
+    const v = r.values[name];
+    if (v !== null && v !== undefined && !Number.isFinite(v)) return name;
   }
   return null;
 }
 
 /**
- * Integrate scenarios [start, end) of the context's plan.
+ * Integrate scenarios [start, end) of the context's plan with the sweep's process.
  * A scenario that throws is recorded as failed with the error message; it never stops the chunk.
+ * One inputs object serves every row (processes must not keep it): no allocation per row here.
  */
 export function computeChunk(ctx: ChunkContext, start: number, end: number): ChunkResult {
   const n = end - start;
-  const points = allocatePointBatch(n, ctx.plan.hasBlocks);
+  const { process, model, resultNames } = ctx;
+  const inputNames = ctx.plan.inputNames;
+  const points = allocatePointBatch(inputNames, n, ctx.plan.hasBlocks);
   ctx.plan.fill(start, end, points);
   const status = new Uint8Array(n);
-  const numeric = allocateNumeric(n);
+  const numeric = allocateNumeric(resultNames, n);
+  const inputCols = inputNames.map((name) => points.inputs[name]);
+  const resultCols = resultNames.map((name) => numeric[name]);
   const reasons: Array<readonly [number, string]> = [];
   const pressures = ctx.profilePressures;
   const profiles = pressures === null ? undefined : allocateProfileSamples(n, pressures.length);
+  const row: Record<string, number> = {};
+  for (const name of inputNames) row[name] = Number.NaN;
   const t0 = performance.now();
   for (let i = 0; i < n; i++) {
-    const scenario: Scenario = {
-      tp_c: points.tp_c[i],
-      water_ppm: points.water_ppm[i],
-      lid_km: points.lid_km[i],
-      upwelling_mm_yr: points.upwelling_mm_yr[i],
-    };
-    let result: ColumnResult | null = null;
+    for (let k = 0; k < inputCols.length; k++) row[inputNames[k]] = inputCols[k][i];
+    let result: ProcessResult | null = null;
     let failure: string | null = null;
     try {
-      result = meltColumn(scenario, ctx.model);
+      result = process.compute(row, model);
       if (result.status === 'ok') {
-        const bad = firstNonFinite(result);
+        const bad = firstNonFinite(result, resultNames);
         if (bad !== null) failure = `non-finite ${bad} in an ok column`;
       }
     } catch (err) {
@@ -107,21 +117,21 @@ export function computeChunk(ctx: ChunkContext, start: number, end: number): Chu
     }
     if (failure !== null || result === null) {
       status[i] = FAILED_CODE;
-      for (const name of RESULT_NUMERIC_NAMES) numeric[name][i] = NaN;
+      for (const col of resultCols) col[i] = NaN;
       reasons.push([i, failure ?? 'no result']);
       if (profiles !== undefined) clearProfileRow(profiles, i);
       continue;
     }
-    const ok: ColumnResult = result;
+    const ok: ProcessResult = result;
     status[i] = STATUS_CODE[ok.status];
-    for (const name of RESULT_NUMERIC_NAMES) {
-      const v = ok[name];
-      numeric[name][i] = v === null ? NaN : v;
+    const values = ok.values;
+    for (let k = 0; k < resultCols.length; k++) {
+      const v = values[resultNames[k]];
+      resultCols[k][i] = v === null || v === undefined ? NaN : v;
     }
     if (ok.reason !== null) reasons.push([i, ok.reason]);
-    if (profiles !== undefined && pressures !== null) {
-      const thermal = resolveThermalModel(scenario, ctx.model);
-      sampleColumnProfile(ok, scenario.tp_c, scenario.lid_km, thermal, ctx.model.params, pressures, profiles, i);
+    if (profiles !== undefined && pressures !== null && process.profileTable !== undefined) {
+      process.profileTable.sample(ok, row, model, pressures, profiles, i);
     }
   }
   const computeMs = performance.now() - t0;
@@ -133,11 +143,11 @@ export function computeChunk(ctx: ChunkContext, start: number, end: number): Chu
 /** Rows of a chunk that could not be computed at all (worker lost twice): all failed, inputs kept. */
 export function failedChunk(ctx: ChunkContext, start: number, end: number, reason: string): ChunkResult {
   const n = end - start;
-  const points = allocatePointBatch(n, ctx.plan.hasBlocks);
+  const points = allocatePointBatch(ctx.plan.inputNames, n, ctx.plan.hasBlocks);
   ctx.plan.fill(start, end, points);
   const status = new Uint8Array(n).fill(FAILED_CODE);
-  const numeric = allocateNumeric(n);
-  for (const name of RESULT_NUMERIC_NAMES) numeric[name].fill(NaN);
+  const numeric = allocateNumeric(ctx.resultNames, n);
+  for (const name of ctx.resultNames) numeric[name].fill(NaN);
   const reasons: Array<readonly [number, string]> = [];
   for (let i = 0; i < n; i++) reasons.push([i, reason]);
   const pressures = ctx.profilePressures;
@@ -147,15 +157,11 @@ export function failedChunk(ctx: ChunkContext, start: number, end: number, reaso
 
 /** Every ArrayBuffer of a chunk, for moving it across a thread boundary without copying. */
 export function chunkTransferables(c: ChunkResult): ArrayBuffer[] {
-  const list: ArrayBuffer[] = [
-    c.points.tp_c.buffer as ArrayBuffer,
-    c.points.water_ppm.buffer as ArrayBuffer,
-    c.points.lid_km.buffer as ArrayBuffer,
-    c.points.upwelling_mm_yr.buffer as ArrayBuffer,
-    c.status.buffer as ArrayBuffer,
-  ];
+  const list: ArrayBuffer[] = [];
+  for (const col of Object.values(c.points.inputs)) list.push(col.buffer as ArrayBuffer);
+  list.push(c.status.buffer as ArrayBuffer);
   if (c.points.block) list.push(c.points.block.buffer as ArrayBuffer);
-  for (const name of RESULT_NUMERIC_NAMES) list.push(c.numeric[name].buffer as ArrayBuffer);
+  for (const col of Object.values(c.numeric)) list.push(col.buffer as ArrayBuffer);
   const pr = c.profiles;
   if (pr !== undefined) {
     list.push(pr.t_c.buffer as ArrayBuffer, pr.f.buffer as ArrayBuffer, pr.h2o_melt_wt_pct.buffer as ArrayBuffer, pr.productivity_pct_per_gpa.buffer as ArrayBuffer);

@@ -5,7 +5,8 @@
  */
 import * as arrow from 'apache-arrow';
 import { chunkToRecordBatch } from '../io/arrow-batch.js';
-import { makeStatusDictionary, resultsSchema } from '../io/arrow-schema.js';
+import { makeStatusDictionary, resultsSchema, tableFieldsOf } from '../io/arrow-schema.js';
+import { resolveParams } from '../physics/params.js';
 import { computeChunk, makeChunkContext } from './compute-chunk.js';
 import type { SweepSpec } from '../spec/types.js';
 
@@ -33,7 +34,8 @@ export function estimateRun(spec: SweepSpec, rows: number, workers: number, budg
   let ms = 0;
   let bytes = 0;
   const schema = resultsSchema({
-    sweepJson: '{}', sweepHash: '', toolVersion: '', params: ctx.model.params, pointCount: count,
+    ...tableFieldsOf(spec),
+    sweepJson: '{}', sweepHash: '', toolVersion: '', params: resolveParams(spec.model.params), pointCount: count,
     rowStart: 0, rowEnd: count, shard: '1/1', blockLabels: ctx.plan.hasBlocks ? ['A'] : null,
   });
   const dictionary = makeStatusDictionary();

@@ -20,7 +20,7 @@ import { sweepHash } from '../spec/index.js';
 import type { SweepSpec } from '../spec/types.js';
 import { TOOL_VERSION } from '../version.js';
 import { chunkToRecordBatch } from '../io/arrow-batch.js';
-import { makeStatusDictionary, resultsSchema, type ResultsTableMeta } from '../io/arrow-schema.js';
+import { makeStatusDictionary, resultsSchema, tableFieldsOf, type ResultsTableMeta } from '../io/arrow-schema.js';
 import { profilesPathFor, resolveOutputFormat, type OutputFormat } from '../io/output-format.js';
 import { profileAxis, profileChunkToRecordBatch, profilesSchema } from '../io/profile-table.js';
 import { partialDirFor, SegmentStore, type PartialManifest } from '../io/segment-store.js';
@@ -160,6 +160,7 @@ export async function runSweep(opts: RunOptions): Promise<RunSummary> {
   const chunkSize = store.manifest.chunkSize;
 
   const meta: ResultsTableMeta = {
+    ...tableFieldsOf(spec),
     sweepJson: JSON.stringify(spec),
     sweepHash: hash,
     toolVersion: TOOL_VERSION,

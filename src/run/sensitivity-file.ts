@@ -7,7 +7,6 @@ import * as arrow from 'apache-arrow';
 import path from 'node:path';
 import { analyzeSensitivity, type SensitivityReport } from '../analyze/index.js';
 import { InputError } from '../errors.js';
-import { RESULT_NUMERIC_NAMES } from '../physics/fields.js';
 import { planSweep } from '../plan/index.js';
 import type { SweepSpec } from '../spec/types.js';
 import { readResultsMeta } from '../io/arrow-schema.js';
@@ -75,17 +74,17 @@ async function readColumns(file: string, inputNames: readonly string[], outputNa
 }
 
 /** The numeric outputs that hold at least one value in the file (null-only columns say nothing). */
-async function outputsWithValues(file: string): Promise<string[]> {
+async function outputsWithValues(file: string, names: readonly string[]): Promise<string[]> {
   const seen = new Set<string>();
   for await (const batch of readTableBatches(file)) {
-    for (const n of RESULT_NUMERIC_NAMES) {
+    for (const n of names) {
       if (seen.has(n)) continue;
       const col = batch.getChild(n);
       if (col !== null && col.nullCount < col.length) seen.add(n);
     }
-    if (seen.size === RESULT_NUMERIC_NAMES.length) break;
+    if (seen.size === names.length) break;
   }
-  return RESULT_NUMERIC_NAMES.filter((n) => seen.has(n));
+  return names.filter((n) => seen.has(n));
 }
 
 export async function analyzeResultsFile(file: string, options: SensitivityFileOptions = {}): Promise<SensitivityReport> {
@@ -97,10 +96,12 @@ export async function analyzeResultsFile(file: string, options: SensitivityFileO
   }
   const spec = meta.sweep as SweepSpec;
   const plan = planSweep(spec);
-  const available = await outputsWithValues(file);
+  // the outputs are the result fields of the table's process (schema metadata meltsweep.process)
+  const RESULT_NUMERIC_NAMES = meta.results.map((r) => r.name);
+  const available = await outputsWithValues(file, RESULT_NUMERIC_NAMES);
   const outputs = options.outputs ?? available;
   for (const o of outputs) {
-    if (!RESULT_NUMERIC_NAMES.includes(o as (typeof RESULT_NUMERIC_NAMES)[number])) {
+    if (!RESULT_NUMERIC_NAMES.includes(o)) {
       throw new InputError(`--outputs: ${o} is not an output column; allowed: ${RESULT_NUMERIC_NAMES.join(', ')}`);
     }
   }

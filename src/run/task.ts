@@ -10,4 +10,6 @@ export interface ChunkTask {
   readonly end: number;
   /** sample every column on this pressure grid (the profile table); absent: no profiles */
   readonly profiles?: ProfileGrid;
+  /** modules of processes that are not built in (RunOptions.processModules), registered before computing */
+  readonly processModules?: readonly string[];
 }

@@ -2,9 +2,7 @@
  * The canonical form of a spec: fixed key order, defaults written out, deep-frozen, plain
  * JSON data. Two specs that make the same points normalize to the same JSON (and hash).
  */
-import { INPUT_NAMES, type InputName } from '../physics/fields.js';
-import { PARAM_NAMES, type ParamName } from '../physics/params.js';
-import { INPUT_DEFAULTS } from './input-defaults.js';
+import { processOfSpec } from '../process/registry.js';
 import type { AxisSpec, DesignSpec, ModelSpec, SweepSpec } from './types.js';
 
 /** Recursively freeze a plain-data value (objects and arrays) and return it. */
@@ -18,13 +16,14 @@ export function deepFreeze<T>(value: T): T {
 
 /**
  * Canonical, deep-frozen copy of a spec: keys in a fixed order, `fixed` listing every constant
- * input (user-fixed values and the defaults water_ppm 0, lid_km 0; upwelling_mm_yr only when
- * given), parameter overrides in the registry's order, optional design fields omitted when absent.
+ * input of the sweep's process (user-fixed values and finite defaults, e.g. water_ppm 0, lid_km 0;
+ * an input whose default is NaN only when given), the model section in the process's canonical form, optional design fields omitted when absent.
  * The spec is trusted to be valid (it comes from `validateSweep`, or from stored JSON that did);
  * use `validateSweep` for anything a user wrote.
  */
 export function normalizeSweep(spec: SweepSpec): SweepSpec {
-  const swept = new Set<InputName>(spec.axes.map((a) => a.name));
+  const process = processOfSpec(spec);
+  const swept = new Set<string>(spec.axes.map((a) => a.name));
   const axes: AxisSpec[] = spec.axes.map((a) => ({
     name: a.name,
     values: [...a.values],
@@ -32,19 +31,14 @@ export function normalizeSweep(spec: SweepSpec): SweepSpec {
     max: a.max,
     scale: a.scale,
   }));
-  const fixed: Partial<Record<InputName, number>> = {};
-  for (const name of INPUT_NAMES) {
-    if (swept.has(name)) continue;
-    const given = spec.fixed[name];
-    if (given !== undefined) fixed[name] = given;
-    else if (name !== 'tp_c' && Number.isFinite(INPUT_DEFAULTS[name])) fixed[name] = INPUT_DEFAULTS[name];
+  const fixed: Record<string, number> = {};
+  for (const input of process.inputsFor(spec.model)) {
+    if (swept.has(input.name)) continue;
+    const given = spec.fixed[input.name];
+    if (given !== undefined) fixed[input.name] = given;
+    else if (input.default !== null && Number.isFinite(input.default)) fixed[input.name] = input.default;
   }
-  const params: Partial<Record<ParamName, number>> = {};
-  for (const name of PARAM_NAMES) {
-    const v = spec.model.params[name];
-    if (v !== undefined) params[name] = v;
-  }
-  const model: ModelSpec = { thermal: spec.model.thermal, water: spec.model.water, params, step_gpa: spec.model.step_gpa };
+  const model: ModelSpec = process.model.normalize(spec.model);
   return deepFreeze({ name: spec.name, axes, fixed, design: normalizeDesign(spec.design), model });
 }
 

@@ -5,7 +5,6 @@
  * undefined values) so it can be sent to worker threads and stored as JSON in the output's
  * schema metadata. Build one with `validateSweep` / `parseSweepText` / `loadSweepFile`.
  */
-import type { InputName } from '../physics/fields.js';
 import type { ParamOverrides } from '../physics/params.js';
 
 /** Spacing of a swept input: linear, or log (geometric grid values, log-uniform sampling). */
@@ -21,7 +20,7 @@ export type AxisScale = 'linear' | 'log';
  *   (allowed in random designs only) has `values` = [from, to].
  */
 export interface AxisSpec {
-  readonly name: InputName;
+  readonly name: string;
   /** the grid values of this axis (for ranges: from..to by step or count), in the input's unit */
   readonly values: readonly number[];
   /** interval sampled by random designs (min <= max) */
@@ -50,16 +49,22 @@ export type DesignSpec =
 /** The name of a design: grid, latin-hypercube, sobol or saltelli. */
 export type DesignKind = DesignSpec['kind'];
 
-/** How each column is computed (the physics options of a sweep). */
+/**
+ * The `model` section: which process computes the columns and its options. The keys besides
+ * `process` and `params` belong to the process (src/process/: decompression has thermal, water,
+ * step_gpa; see DecompressionModelSpec in validate-model.ts).
+ */
 export interface ModelSpec {
-  /** 'auto': conductive with an upwelling rate, isentropic without (default 'auto') */
-  readonly thermal: 'isentropic' | 'conductive' | 'auto';
-  /** default 'batch' */
-  readonly water: 'batch' | 'fractional';
-  /** overrides of the published parameter values (keys in the paper's notation) */
+  /**
+   * the process (src/process/registry.ts); absent = 'decompression'. Normalized specs leave the
+   * default out, so sweeps stored before processes existed keep their JSON and hash: read it
+   * with processOfSpec / processNameOf, never directly.
+   */
+  readonly process?: string;
+  /** overrides of the published parameter values (keys in the paper's notation), shared by all processes */
   readonly params: ParamOverrides;
-  /** isentropic pressure step, GPa (default 0.05, allowed 0.001-0.5) */
-  readonly step_gpa: number;
+  /** the process's own options (validated by the process) */
+  readonly [option: string]: unknown;
 }
 
 /** A validated, normalized sweep: everything needed to reproduce its points and columns. */
@@ -68,11 +73,12 @@ export interface SweepSpec {
   /** swept inputs in file order (in a grid the last varies fastest) */
   readonly axes: readonly AxisSpec[];
   /**
-   * Inputs held constant. After normalization this also holds the defaults of inputs that
-   * are neither swept nor fixed (water_ppm 0, lid_km 0), so it states every constant used;
-   * upwelling_mm_yr is absent when not given (the points carry NaN).
+   * Inputs of the process held constant. After normalization this also holds the finite
+   * defaults of inputs that are neither swept nor fixed (decompression: water_ppm 0, lid_km 0),
+   * so it states every constant used; an input whose default is NaN ("not given", e.g.
+   * upwelling_mm_yr) is absent when not given (the points carry NaN).
    */
-  readonly fixed: Readonly<Partial<Record<InputName, number>>>;
+  readonly fixed: Readonly<Record<string, number>>;
   readonly design: DesignSpec;
   readonly model: ModelSpec;
 }

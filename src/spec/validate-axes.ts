@@ -2,8 +2,8 @@
  * Validation of the `axes` section: each swept input is `values`, or `from`/`to` with `step`
  * or `count` (optional `scale: log`). Ranges are expanded to their values here, once.
  */
-import { INPUT_NAMES, type InputName } from '../physics/fields.js';
-import { checkInputValue } from '../physics/ranges.js';
+import { checkRangeValue } from '../physics/ranges.js';
+import type { InputDef } from '../process/types.js';
 import { MAX_AXIS_VALUES } from './limits.js';
 import {
   checkKeys,
@@ -14,6 +14,7 @@ import {
   readWholeNumber,
   type ProblemList,
 } from './problems.js';
+import { suggestName } from './suggest.js';
 import type { AxisScale, AxisSpec, DesignKind } from './types.js';
 
 /** Keys an axis may have. */
@@ -25,39 +26,68 @@ const AXIS_SHAPE = '{ values: [...] } or { from: ..., to: ..., step: ... } (or c
 export interface AxesResult {
   readonly axes: readonly AxisSpec[];
   /** input names that appear under axes, whether or not their axis is valid */
-  readonly named: readonly InputName[];
+  readonly named: readonly string[];
   /** true when no problem was found in the section */
   readonly ok: boolean;
   /** inputs suggested for unknown names ("tp" -> tp_c): not reported again as missing */
   readonly suggested: readonly string[];
 }
 
+/** The inputs of the sweep's process, as the axes and fixed sections see them. */
+export interface ProcessInputs {
+  /** the process name, for messages */
+  readonly process: string;
+  readonly inputs: readonly InputDef[];
+}
+
 /**
- * Validate the `axes` mapping. `design` is the design kind when it is known (a grid needs
- * step or count on every range axis; random designs can sample a bare from/to interval).
+ * Report every key of a section (axes, fixed) that is not an input of the process: a near miss
+ * gets "unknown input; did you mean tp_c?", anything else names the process and lists its inputs.
+ * Returns the suggested names.
  */
-export function validateAxes(raw: unknown, design: DesignKind | undefined, problems: ProblemList): AxesResult {
+export function checkInputKeys(obj: Record<string, unknown>, pi: ProcessInputs, path: string, problems: ProblemList): string[] {
+  const names = pi.inputs.map((i) => i.name);
+  const suggested: string[] = [];
+  for (const key of Object.keys(obj)) {
+    if (names.includes(key)) continue;
+    const near = suggestName(key, names);
+    if (near !== null) {
+      problems.add(`${path}.${key}`, `unknown input; did you mean ${near}?`);
+      suggested.push(near);
+    } else {
+      problems.add(`${path}.${key}`, `${key} is not an input of process ${pi.process}; its inputs: ${names.join(', ')}`);
+    }
+  }
+  return suggested;
+}
+
+/**
+ * Validate the `axes` mapping against the inputs of the sweep's process. `design` is the design
+ * kind when it is known (a grid needs step or count on every range axis; random designs can
+ * sample a bare from/to interval).
+ */
+export function validateAxes(raw: unknown, design: DesignKind | undefined, pi: ProcessInputs, problems: ProblemList): AxesResult {
   const before = problems.count;
   if (raw === undefined || raw === null) return { axes: [], named: [], ok: true, suggested: [] };
   if (!isMapping(raw)) {
-    problems.add('axes', `${describeFound(raw)} is not a mapping of inputs to axes; allowed inputs: ${INPUT_NAMES.join(', ')}`);
+    problems.add('axes', `${describeFound(raw)} is not a mapping of inputs to axes; allowed inputs: ${pi.inputs.map((i) => i.name).join(', ')}`);
     return { axes: [], named: [], ok: false, suggested: [] };
   }
-  const suggested = checkKeys(raw, INPUT_NAMES, 'axes', problems, 'input');
+  const suggested = checkInputKeys(raw, pi, 'axes', problems);
   const axes: AxisSpec[] = [];
-  const named: InputName[] = [];
+  const named: string[] = [];
   for (const [key, body] of Object.entries(raw)) {
-    if (!(INPUT_NAMES as readonly string[]).includes(key)) continue;
-    const name = key as InputName;
-    named.push(name);
-    const axis = validateAxis(name, body, design, problems);
+    const input = pi.inputs.find((i) => i.name === key);
+    if (input === undefined) continue;
+    named.push(key);
+    const axis = validateAxis(input, body, design, problems);
     if (axis !== undefined) axes.push(axis);
   }
   return { axes, named, ok: problems.count === before, suggested };
 }
 
-function validateAxis(name: InputName, body: unknown, design: DesignKind | undefined, problems: ProblemList): AxisSpec | undefined {
-  const path = `axes.${name}`;
+function validateAxis(input: InputDef, body: unknown, design: DesignKind | undefined, problems: ProblemList): AxisSpec | undefined {
+  const path = `axes.${input.name}`;
   if (!isMapping(body)) {
     if (typeof body === 'number') {
       problems.add(path, `${body} is not an axis; write ${AXIS_SHAPE}, or put a constant under fixed`);
@@ -79,16 +109,16 @@ function validateAxis(name: InputName, body: unknown, design: DesignKind | undef
       problems.add(path, 'give either values or from/to, not both');
       return undefined;
     }
-    axis = validateValuesAxis(name, body.values, scale, path, problems);
+    axis = validateValuesAxis(input, body.values, scale, path, problems);
   } else {
-    axis = validateRangeAxis(name, body, scale, design, path, problems);
+    axis = validateRangeAxis(input, body, scale, design, path, problems);
   }
   return problems.count === before ? axis : undefined;
 }
 
 /** Check one value against the input's range and the axis scale; true when it is allowed. */
-function checkAxisValue(name: InputName, value: number, scale: AxisScale, path: string, problems: ProblemList): boolean {
-  const why = checkInputValue(name, value);
+function checkAxisValue(input: InputDef, value: number, scale: AxisScale, path: string, problems: ProblemList): boolean {
+  const why = checkRangeValue(input, value);
   if (why !== null) {
     problems.add(path, `${value} ${why}`);
     return false;
@@ -101,7 +131,7 @@ function checkAxisValue(name: InputName, value: number, scale: AxisScale, path: 
 }
 
 function validateValuesAxis(
-  name: InputName,
+  input: InputDef,
   raw: unknown,
   scale: AxisScale,
   path: string,
@@ -126,7 +156,7 @@ function validateValuesAxis(
   raw.forEach((item: unknown, i) => {
     const ipath = `${vpath}[${i}]`;
     const v = readNumber(item, ipath, problems);
-    if (v === undefined || !checkAxisValue(name, v, scale, ipath, problems)) {
+    if (v === undefined || !checkAxisValue(input, v, scale, ipath, problems)) {
       ok = false;
       return;
     }
@@ -140,11 +170,11 @@ function validateValuesAxis(
     values.push(v);
   });
   if (!ok) return undefined;
-  return { name, values, min: Math.min(...values), max: Math.max(...values), scale };
+  return { name: input.name, values, min: Math.min(...values), max: Math.max(...values), scale };
 }
 
 function validateRangeAxis(
-  name: InputName,
+  input: InputDef,
   body: Record<string, unknown>,
   scale: AxisScale,
   design: DesignKind | undefined,
@@ -158,7 +188,7 @@ function validateRangeAxis(
       return undefined;
     }
     const v = readNumber(body[k], `${path}.${k}`, problems);
-    return v !== undefined && checkAxisValue(name, v, scale, `${path}.${k}`, problems) ? v : undefined;
+    return v !== undefined && checkAxisValue(input, v, scale, `${path}.${k}`, problems) ? v : undefined;
   });
   const hasStep = body.step !== undefined;
   const hasCount = body.count !== undefined;
@@ -187,7 +217,7 @@ function validateRangeAxis(
       return undefined;
     }
   }
-  return { name, values, min: Math.min(from, to), max: Math.max(from, to), scale };
+  return { name: input.name, values, min: Math.min(from, to), max: Math.max(from, to), scale };
 }
 
 /** Round away the binary drift of from + i * step (0.30000000000000004 -> 0.3). */

@@ -8,15 +8,25 @@ import { STEP_GPA_DEFAULT, STEP_GPA_MAX, STEP_GPA_MIN } from './limits.js';
 import { checkKeys, describeFound, isMapping, readChoice, readNumber, unknownKeyText, type ProblemList } from './problems.js';
 import type { ModelSpec } from './types.js';
 
+/** The `model` section of a decompression sweep (normalized: these keys in this order). */
+export interface DecompressionModelSpec extends ModelSpec {
+  /** 'auto': conductive with an upwelling rate, isentropic without (default 'auto') */
+  readonly thermal: 'isentropic' | 'conductive' | 'auto';
+  /** default 'batch' */
+  readonly water: 'batch' | 'fractional';
+  /** isentropic pressure step, GPa (default 0.05, allowed 0.001-0.5) */
+  readonly step_gpa: number;
+}
+
 /** Keys of the `model` section. */
 export const MODEL_KEYS = ['thermal', 'water', 'params', 'step_gpa'] as const;
 /** Allowed `model.thermal` values. */
-export const THERMAL_MODES: readonly ModelSpec['thermal'][] = ['isentropic', 'conductive', 'auto'];
+export const THERMAL_MODES: readonly DecompressionModelSpec['thermal'][] = ['isentropic', 'conductive', 'auto'];
 /** Allowed `model.water` values. */
-export const WATER_MODES: readonly ModelSpec['water'][] = ['batch', 'fractional'];
+export const WATER_MODES: readonly DecompressionModelSpec['water'][] = ['batch', 'fractional'];
 
 /** Validate `model`; absent means thermal auto, water batch, no overrides, step 0.05 GPa. */
-export function validateModel(raw: unknown, problems: ProblemList): ModelSpec | undefined {
+export function validateModel(raw: unknown, problems: ProblemList): DecompressionModelSpec | undefined {
   if (raw !== undefined && raw !== null && !isMapping(raw)) {
     problems.add('model', `${describeFound(raw)} is not a mapping; write { thermal: ..., water: ..., params: { ... } }`);
     return undefined;
@@ -71,4 +81,18 @@ function validateParams(raw: unknown, problems: ProblemList): ParamOverrides | u
   const out: Partial<Record<ParamName, number>> = {};
   for (const name of PARAM_NAMES) if (typeof known[name] === 'number') out[name] = known[name];
   return out;
+}
+
+/**
+ * The canonical form of a valid decompression model section: thermal, water, params (in the
+ * registry's order), step_gpa; no `process` key (the default process is not written, so specs
+ * stored before processes existed keep their JSON and hash).
+ */
+export function normalizeDecompressionModel(model: DecompressionModelSpec): DecompressionModelSpec {
+  const params: Partial<Record<ParamName, number>> = {};
+  for (const name of PARAM_NAMES) {
+    const v = model.params[name];
+    if (v !== undefined) params[name] = v;
+  }
+  return { thermal: model.thermal, water: model.water, params, step_gpa: model.step_gpa };
 }

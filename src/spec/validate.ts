@@ -4,16 +4,16 @@
  * allowed) and all are thrown together as one InputError.
  */
 import { InputError } from '../errors.js';
-import { INPUT_NAMES, type InputName } from '../physics/fields.js';
 import { countPoints } from './count.js';
-import { checkInputValue, formatInputRange, INPUT_RANGES } from '../physics/ranges.js';
+import { checkRangeValue, formatRange } from '../physics/ranges.js';
+import { DEFAULT_PROCESS, allProcesses, processNames } from '../process/registry.js';
+import type { AnyProcess } from '../process/types.js';
 import { MAX_POINTS } from './limits.js';
 import { normalizeSweep } from './normalize.js';
-import { checkKeys, describeFound, isMapping, ProblemList, readNumber } from './problems.js';
+import { checkKeys, describeFound, isMapping, ProblemList, readChoice, readNumber } from './problems.js';
 import type { AxisSpec, DesignSpec, ModelSpec, SweepSpec } from './types.js';
-import { validateAxes } from './validate-axes.js';
+import { checkInputKeys, validateAxes, type ProcessInputs } from './validate-axes.js';
 import { validateDesign } from './validate-design.js';
-import { validateModel } from './validate-model.js';
 
 /** Top-level keys of a sweep file, in the order they are written. */
 export const SWEEP_KEYS = ['name', 'axes', 'fixed', 'design', 'model'] as const;
@@ -44,26 +44,36 @@ export function validateSweep(raw: unknown, options: ValidateOptions = {}): Swee
 
   const name = validateName(raw.name, options.defaultName ?? 'sweep', problems);
   // the design is read first (axes depend on its kind) but reported in file order, after fixed
+  // the process decides which inputs exist: an unknown one stops here (every other message would mislead)
+  const process = readProcess(raw.model);
+  // the design and model are read first (axes depend on them) but reported in file order, after fixed
   const designProblems = new ProblemList();
   const { design, kind } = validateDesign(raw.design, designProblems);
-  const axesResult = validateAxes(raw.axes, kind, problems);
-  const fixedResult = validateFixed(raw.fixed, axesResult.named, problems);
+  const modelProblems = new ProblemList();
+  const model = validateModelSection(raw.model, process, modelProblems);
+  const pi: ProcessInputs = { process: process.name, inputs: process.inputsFor(model ?? { ...process.model.defaults, params: {} }) };
+  const axesResult = validateAxes(raw.axes, kind, pi, problems);
+  const fixedResult = validateFixed(raw.fixed, axesResult.named, pi, problems);
   const fixed = fixedResult.fixed;
-  const tpGiven = axesResult.named.includes('tp_c') || (isMapping(raw.fixed) && raw.fixed.tp_c !== undefined);
-  // a misspelt key already reported with tp_c, axes or fixed suggested would only be repeated
-  const tpSuggested =
-    axesResult.suggested.includes('tp_c') || fixedResult.suggested.includes('tp_c') || suggestedTop.includes('axes') || suggestedTop.includes('fixed');
-  if (!tpGiven && !tpSuggested) {
+  // a misspelt key already reported with the input, axes or fixed suggested would only be repeated
+  const sectionSuggested = suggestedTop.includes('axes') || suggestedTop.includes('fixed');
+  for (const input of pi.inputs) {
+    if (input.default !== null) continue;
+    const given = axesResult.named.includes(input.name) || (isMapping(raw.fixed) && raw.fixed[input.name] !== undefined);
+    const suggested = axesResult.suggested.includes(input.name) || fixedResult.suggested.includes(input.name) || sectionSuggested;
+    if (given || suggested) continue;
     problems.add(
-      'axes.tp_c',
-      `missing; tp_c (${INPUT_RANGES.tp_c.description}, ${formatInputRange('tp_c')}) must be swept under axes or set under fixed`,
+      `axes.${input.name}`,
+      `missing; ${input.name} (${input.description}, ${formatRange(input)}) must be swept under axes or set under fixed`,
     );
   }
   problems.addAll(designProblems);
-  const model = validateModel(raw.model, problems);
+  problems.addAll(modelProblems);
 
   if (design !== undefined && axesResult.ok) checkDesignFit(axesResult.axes, design, problems);
-  if (model !== undefined && fixed !== undefined && axesResult.ok) checkThermal(model, axesResult.axes, fixed, problems);
+  if (model !== undefined && fixed !== undefined && axesResult.ok && process.model.checkInputs !== undefined) {
+    process.model.checkInputs(model, new Set([...axesResult.axes.map((a) => a.name), ...Object.keys(fixed)]), problems);
+  }
 
   if (problems.count > 0 || design === undefined || model === undefined || fixed === undefined || name === undefined) {
     throw new InputError(problems.list());
@@ -88,31 +98,57 @@ function validateName(raw: unknown, fallback: string, problems: ProblemList): st
   return raw;
 }
 
+/**
+ * The process named by `model.process` (absent: the default).
+ * @throws InputError naming the value and the known processes
+ */
+function readProcess(rawModel: unknown): AnyProcess {
+  const raw = isMapping(rawModel) ? rawModel.process : undefined;
+  const name = raw === undefined || raw === null ? DEFAULT_PROCESS : raw;
+  const problems = new ProblemList();
+  const chosen = readChoice(name, processNames(), 'model.process', problems, 'a known process');
+  const process = allProcesses().find((p) => p.name === chosen);
+  if (process === undefined) throw new InputError(problems.list());
+  return process;
+}
+
+/** The model section, validated by its process (the `process` key itself is read by readProcess). */
+function validateModelSection(raw: unknown, process: AnyProcess, problems: ProblemList): ModelSpec | undefined {
+  if (raw !== undefined && raw !== null && !isMapping(raw)) {
+    problems.add('model', `${describeFound(raw)} is not a mapping; write { process: ..., params: { ... } } with the options of the process`);
+    return undefined;
+  }
+  const body: Record<string, unknown> = isMapping(raw) ? { ...raw } : {};
+  delete body.process;
+  return process.model.validate(body, problems);
+}
+
 interface FixedResult {
-  readonly fixed: Partial<Record<InputName, number>> | undefined;
+  readonly fixed: Record<string, number> | undefined;
   readonly suggested: readonly string[];
 }
 
-function validateFixed(raw: unknown, swept: readonly InputName[], problems: ProblemList): FixedResult {
+function validateFixed(raw: unknown, swept: readonly string[], pi: ProcessInputs, problems: ProblemList): FixedResult {
   if (raw === undefined || raw === null) return { fixed: {}, suggested: [] };
   if (!isMapping(raw)) {
     problems.add('fixed', `${describeFound(raw)} is not a mapping of inputs to values, e.g. { lid_km: 6 }`);
     return { fixed: undefined, suggested: [] };
   }
   const before = problems.count;
-  const suggested = checkKeys(raw, INPUT_NAMES, 'fixed', problems, 'input');
-  const fixed: Partial<Record<InputName, number>> = {};
+  const suggested = checkInputKeys(raw, pi, 'fixed', problems);
+  const fixed: Record<string, number> = {};
   for (const [key, value] of Object.entries(raw)) {
     const path = `fixed.${key}`;
-    if (!(INPUT_NAMES as readonly string[]).includes(key)) continue;
-    const name = key as InputName;
+    const input = pi.inputs.find((i) => i.name === key);
+    if (input === undefined) continue;
+    const name = key;
     const v = readNumber(value, path, problems);
     if (v === undefined) continue;
     if (swept.includes(name)) {
       problems.add(path, `${v} conflicts with axes.${name}; an input is either swept or fixed, not both`);
       continue;
     }
-    const why = checkInputValue(name, v);
+    const why = checkRangeValue(input, v);
     if (why !== null) {
       problems.add(path, `${v} ${why}`);
       continue;
@@ -147,11 +183,4 @@ function checkDesignFit(axes: readonly AxisSpec[], design: DesignSpec, problems:
         : `${design.kind === 'saltelli' ? `${design.base} x (${axes.length} + 2)` : 'this'} makes ${count} points`;
     problems.add(where, `${how}, above the limit of ${MAX_POINTS} (2^40)`);
   }
-}
-
-/** A conductive column needs an upwelling rate for every point. */
-function checkThermal(model: ModelSpec, axes: readonly AxisSpec[], fixed: Partial<Record<InputName, number>>, problems: ProblemList): void {
-  if (model.thermal !== 'conductive') return;
-  if (axes.some((a) => a.name === 'upwelling_mm_yr') || fixed.upwelling_mm_yr !== undefined) return;
-  problems.add('model.thermal', '"conductive" needs an upwelling rate; sweep upwelling_mm_yr under axes or set it under fixed');
 }

@@ -34,17 +34,17 @@ describe('grid design', () => {
   it('fills constant columns with the fixed value or the default (NaN for no upwelling)', () => {
     const p = planSweep(specWith({ kind: 'grid' }, { tp_c: { values: [1300, 1400] } }));
     const b = fillRange(p, 0, 2);
-    expect(Array.from(b.tp_c)).toEqual([1300, 1400]);
-    expect(Array.from(b.water_ppm)).toEqual([0, 0]);
-    expect(Array.from(b.lid_km)).toEqual([0, 0]);
-    expect(Array.from(b.upwelling_mm_yr).every(Number.isNaN)).toBe(true);
+    expect(Array.from(b.inputs.tp_c)).toEqual([1300, 1400]);
+    expect(Array.from(b.inputs.water_ppm)).toEqual([0, 0]);
+    expect(Array.from(b.inputs.lid_km)).toEqual([0, 0]);
+    expect(Array.from(b.inputs.upwelling_mm_yr).every(Number.isNaN)).toBe(true);
   });
 
   it('checks the range and the batch', () => {
-    expect(() => plan.fill(-1, 3, allocatePointBatch(4, false))).toThrow(RangeError);
-    expect(() => plan.fill(0, plan.count + 1, allocatePointBatch(plan.count + 1, false))).toThrow(RangeError);
-    expect(() => plan.fill(0, 10, allocatePointBatch(5, false))).toThrow(/out.tp_c holds 5 rows, needs 10/);
-    plan.fill(5, 5, allocatePointBatch(0, false));
+    expect(() => plan.fill(-1, 3, allocatePointBatch(plan.inputNames, 4, false))).toThrow(RangeError);
+    expect(() => plan.fill(0, plan.count + 1, allocatePointBatch(plan.inputNames, plan.count + 1, false))).toThrow(RangeError);
+    expect(() => plan.fill(0, 10, allocatePointBatch(plan.inputNames, 5, false))).toThrow(/out.inputs.tp_c holds 5 rows, needs 10/);
+    plan.fill(5, 5, allocatePointBatch(plan.inputNames, 0, false));
   });
 
   it('a 10-million-point grid is planned and filled lazily at any offset', () => {

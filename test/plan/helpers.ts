@@ -18,25 +18,25 @@ export function specWith(design: Record<string, unknown>, axes: Record<string, u
 
 /** fill(start, end) into a fresh batch. */
 export function fillRange(plan: Plan, start: number, end: number): PointBatch {
-  const out = allocatePointBatch(end - start, plan.hasBlocks);
+  const out = allocatePointBatch(plan.inputNames, end - start, plan.hasBlocks);
   plan.fill(start, end, out);
   return out;
 }
 
 /** Rows of a batch as arrays [tp_c, water_ppm, lid_km, upwelling_mm_yr]. */
 export function rows(batch: PointBatch): number[][] {
-  const n = batch.tp_c.length;
-  return Array.from({ length: n }, (_, i) => INPUT_NAMES.map((name) => batch[name][i]));
+  const n = batch.inputs.tp_c.length;
+  return Array.from({ length: n }, (_, i) => INPUT_NAMES.map((name) => batch.inputs[name][i]));
 }
 
 /** fill over pieces [cuts[i], cuts[i+1]) concatenated, as one batch. */
 export function fillPieces(plan: Plan, cuts: readonly number[]): PointBatch {
   const total = cuts[cuts.length - 1] - cuts[0];
-  const out = allocatePointBatch(total, plan.hasBlocks);
+  const out = allocatePointBatch(plan.inputNames, total, plan.hasBlocks);
   for (let i = 0; i + 1 < cuts.length; i++) {
     const piece = fillRange(plan, cuts[i], cuts[i + 1]);
     const at = cuts[i] - cuts[0];
-    for (const name of INPUT_NAMES) out[name].set(piece[name], at);
+    for (const name of INPUT_NAMES) out.inputs[name].set(piece.inputs[name], at);
     if (out.block !== null && piece.block !== null) out.block.set(piece.block, at);
   }
   return out;

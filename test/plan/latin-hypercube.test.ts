@@ -11,7 +11,7 @@ describe('latin-hypercube design', () => {
   it('puts exactly one sample in each of the N strata of every axis (N = 1000)', () => {
     for (const axis of spec.axes) {
       const hits = new Uint16Array(N);
-      const values = Array.from(all[axis.name]);
+      const values = Array.from(all.inputs[axis.name]);
       expect(values.every((v) => v >= axis.min && v <= axis.max), axis.name).toBe(true);
       for (const v of values) {
         const u = axis.scale === 'log' ? Math.log(v / axis.min) / Math.log(axis.max / axis.min) : (v - axis.min) / (axis.max - axis.min);
@@ -24,12 +24,12 @@ describe('latin-hypercube design', () => {
   it('is reproducible for a seed and differs between seeds', () => {
     expect(fillRange(planSweep(specWith({ kind: 'latin-hypercube', samples: N, seed: 42 })), 0, N)).toEqual(all);
     const other = fillRange(planSweep(specWith({ kind: 'latin-hypercube', samples: N, seed: 43 })), 0, N);
-    for (const name of plan.axisNames) expect(other[name]).not.toEqual(all[name]);
+    for (const name of plan.axisNames) expect(other.inputs[name]).not.toEqual(all.inputs[name]);
   });
 
   it('axes are not coupled (different permutations per input)', () => {
     const order = (a: Float64Array) => Array.from(a.keys()).sort((i, j) => a[i] - a[j]);
-    expect(order(all.tp_c)).not.toEqual(order(all.lid_km));
+    expect(order(all.inputs.tp_c)).not.toEqual(order(all.inputs.lid_km));
   });
 
   it('gives the same points for any split of the range', () => {
@@ -40,7 +40,7 @@ describe('latin-hypercube design', () => {
     const big = planSweep(specWith({ kind: 'latin-hypercube', samples: 10_000_000, seed: 1 }));
     const tail = fillRange(big, 9_999_990, 10_000_000);
     expect(fillPieces(big, [9_999_990, 9_999_995, 10_000_000])).toEqual(tail);
-    expect(Array.from(tail.tp_c).every((v) => v >= 1280 && v <= 1420)).toBe(true);
+    expect(Array.from(tail.inputs.tp_c).every((v) => v >= 1280 && v <= 1420)).toBe(true);
   });
 });
 

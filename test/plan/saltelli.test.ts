@@ -43,8 +43,8 @@ describe('saltelli design (block-major A, B, AB_i)', () => {
   it('constant inputs are the same in every block', () => {
     const s = specWith({ kind: 'saltelli', base: 8 }, { tp_c: { from: 1300, to: 1500 }, lid_km: { from: 0, to: 50 } });
     const b = fillRange(planSweep(s), 0, 32);
-    expect(Array.from(b.water_ppm).every((v) => v === 0)).toBe(true);
-    expect(Array.from(b.upwelling_mm_yr).every(Number.isNaN)).toBe(true);
+    expect(Array.from(b.inputs.water_ppm).every((v) => v === 0)).toBe(true);
+    expect(Array.from(b.inputs.upwelling_mm_yr).every(Number.isNaN)).toBe(true);
     expect(INPUT_NAMES.length).toBe(4);
   });
 
@@ -54,10 +54,10 @@ describe('saltelli design (block-major A, B, AB_i)', () => {
 
   it('skip and seed move the base samples reproducibly', () => {
     const skipped = fillRange(planSweep(specWith({ kind: 'saltelli', base: N, skip: 4 })), 0, 1);
-    expect(skipped.tp_c[0]).toBe(all.tp_c[4]);
+    expect(skipped.inputs.tp_c[0]).toBe(all.inputs.tp_c[4]);
     const s1 = fillRange(planSweep(specWith({ kind: 'saltelli', base: N, seed: 3 })), 0, 100);
     const s2 = fillRange(planSweep(specWith({ kind: 'saltelli', base: N, seed: 3 })), 0, 100);
     expect(s1).toEqual(s2);
-    expect(s1.tp_c).not.toEqual(all.tp_c.subarray(0, 100));
+    expect(s1.inputs.tp_c).not.toEqual(all.inputs.tp_c.subarray(0, 100));
   });
 });

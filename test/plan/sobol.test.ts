@@ -86,16 +86,16 @@ describe('sobol design', () => {
     expect(plan.count).toBe(1000);
     expect(plan.layout).toEqual({ kind: 'sobol', samples: 1000, inputs: ['tp_c', 'water_ppm', 'lid_km', 'upwelling_mm_yr'] });
     const b = fillRange(plan, 0, 4);
-    expect(Array.from(b.tp_c)).toEqual([1280, 1350, 1385, 1315]);
-    expect(Array.from(b.water_ppm)).toEqual([0, 100, 50, 150]);
+    expect(Array.from(b.inputs.tp_c)).toEqual([1280, 1350, 1385, 1315]);
+    expect(Array.from(b.inputs.water_ppm)).toEqual([0, 100, 50, 150]);
     const skipped = fillRange(planSweep(specWith({ kind: 'sobol', samples: 1000, skip: 2 })), 0, 2);
-    expect(Array.from(skipped.tp_c)).toEqual([1385, 1315]);
+    expect(Array.from(skipped.inputs.tp_c)).toEqual([1385, 1315]);
   });
 
   it('samples log axes log-uniformly', () => {
     const b = fillRange(plan, 0, 2);
-    expect(b.upwelling_mm_yr[0]).toBe(2);
-    expect(b.upwelling_mm_yr[1]).toBeCloseTo(Math.sqrt(2 * 80), 10);
+    expect(b.inputs.upwelling_mm_yr[0]).toBe(2);
+    expect(b.inputs.upwelling_mm_yr[1]).toBeCloseTo(Math.sqrt(2 * 80), 10);
   });
 
   it('gives the same points for any split of the range', () => {
@@ -107,10 +107,10 @@ describe('sobol design', () => {
     const again = fillRange(planSweep(specWith({ kind: 'sobol', samples: 256, seed: 7 })), 0, 256);
     const other = fillRange(planSweep(specWith({ kind: 'sobol', samples: 256, seed: 8 })), 0, 256);
     expect(again).toEqual(a);
-    expect(other.tp_c).not.toEqual(a.tp_c);
-    expect(a.tp_c[0]).not.toBe(1280);
+    expect(other.inputs.tp_c).not.toEqual(a.inputs.tp_c);
+    expect(a.inputs.tp_c[0]).not.toBe(1280);
     const hits = new Uint8Array(256);
-    for (const v of a.tp_c) hits[Math.floor(((v - 1280) / 140) * 256)]++;
+    for (const v of a.inputs.tp_c) hits[Math.floor(((v - 1280) / 140) * 256)]++;
     expect(hits.every((h) => h === 1)).toBe(true);
   });
 });

@@ -1,30 +1,28 @@
 /**
- * `meltsweep column`: compute one melting column and print its result (readable table or JSON),
- * optionally writing the profile along the column as CSV. Parse, call, print: the physics is
- * meltColumn, the ranges come from INPUT_RANGES, the units from the field registry.
+ * `meltsweep column`: compute one column of a process and print its result (readable table or
+ * JSON), optionally writing the profile along the column as CSV. Parse, call, print: the process,
+ * its inputs (flags, ranges, defaults) and result fields come from the process registry
+ * (src/process/registry.ts).
  */
 import type { Command } from 'commander';
 import fs from 'node:fs';
 import { InputError, RunError, EXIT_RUN_FAILED } from '../../errors.js';
-import { defaultModel, meltColumn, resolveThermalModel } from '../../physics/column.js';
-import { PROFILE_FIELDS, REASON_FIELD, RESULT_NUMERIC_FIELDS, STATUS_FIELD } from '../../physics/fields.js';
-import { checkRangeValue, formatRange, INPUT_RANGES, STEP_GPA_RANGE, type InputRange } from '../../physics/ranges.js';
-import type { ColumnResult, ModelOptions, Scenario, ThermalModel, WaterMode } from '../../physics/types.js';
+import { REASON_FIELD, STATUS_FIELD, type FieldInfo } from '../../physics/fields.js';
+import { checkRangeValue, formatRange, STEP_GPA_RANGE, type InputRange } from '../../physics/ranges.js';
+import { allProcesses, DEFAULT_PROCESS, processNamed } from '../../process/registry.js';
+import type { AnyProcess, InputDef, ProcessResult } from '../../process/types.js';
+import { ProblemList } from '../../spec/problems.js';
+import type { ModelSpec } from '../../spec/types.js';
 
-const WATER_MODES: readonly WaterMode[] = ['batch', 'fractional'];
-const THERMAL_CHOICES: readonly (ThermalModel | 'auto')[] = ['isentropic', 'conductive', 'auto'];
+/** Options that set model keys of decompression (the names they always had). */
+const MODEL_FLAGS = [
+  { flag: 'mode', key: 'water' },
+  { flag: 'thermal', key: 'thermal' },
+  { flag: 'step', key: 'step_gpa', numeric: true },
+] as const;
 
-interface ColumnOptions {
-  tp: string;
-  water: string;
-  lid: string;
-  upwelling?: string;
-  mode: string;
-  thermal: string;
-  step: string;
-  json?: boolean;
-  profile?: string;
-}
+/** What commander hands the action: input flags and model flags as text, plus the fixed options. */
+type ColumnOptions = Record<string, string | boolean | undefined> & { process?: string; json?: boolean; profile?: string };
 
 /** Parse a numeric option and check it against its range; InputError names option, value and range. */
 function parseRanged(option: string, raw: string, range: InputRange): number {
@@ -35,43 +33,93 @@ function parseRanged(option: string, raw: string, range: InputRange): number {
   return value;
 }
 
-function parseChoice<T extends string>(option: string, raw: string, choices: readonly T[]): T {
-  if ((choices as readonly string[]).includes(raw)) return raw as T;
-  throw new InputError(`${option}: ${JSON.stringify(raw)} is not allowed; choose one of ${choices.join(', ')}`);
+/** commander's key of a --flag ("slab-depth" -> "slabDepth"). */
+function optionKey(flag: string): string {
+  return flag.replace(/-([a-z])/g, (_, c: string) => c.toUpperCase());
 }
 
-/** The scenario and model a set of column options describes. @throws InputError */
-export function columnInputs(o: ColumnOptions): { scenario: Scenario; model: ModelOptions } {
+/** Every input flag of every process, once (processes share flags such as --tp). */
+function allInputFlags(): InputDef[] {
+  const seen = new Map<string, InputDef>();
+  for (const p of allProcesses()) for (const i of p.inputsFor({ ...p.model.defaults, params: {} })) if (!seen.has(i.cliFlag)) seen.set(i.cliFlag, i);
+  return [...seen.values()];
+}
+
+/** The process, its inputs by name and its model section that a set of column options describes. @throws InputError */
+export function columnInputs(o: ColumnOptions): { process: AnyProcess; inputs: Record<string, number>; model: ModelSpec } {
+  const process = processNamed(o.process ?? DEFAULT_PROCESS, '--process');
   const problems: string[] = [];
-  const attempt = <T>(fn: () => T, fallback: T): T => {
-    try {
-      return fn();
-    } catch (err) {
-      if (err instanceof InputError) problems.push(...err.problems);
-      else throw err;
-      return fallback;
+  // the model section from the model flags, validated by the process (its messages name model keys)
+  const section: Record<string, unknown> = {};
+  for (const m of MODEL_FLAGS) {
+    const raw = o[optionKey(m.flag)];
+    if (typeof raw !== 'string') continue;
+    if (!process.model.keys.includes(m.key)) {
+      problems.push(`--${m.flag}: process ${process.name} has no option ${m.key}; its options: ${process.model.keys.join(', ')}`);
+      continue;
     }
-  };
-  const tp = attempt(() => parseRanged('--tp', o.tp, INPUT_RANGES.tp_c), Number.NaN);
-  const water = attempt(() => parseRanged('--water', o.water, INPUT_RANGES.water_ppm), 0);
-  const lid = attempt(() => parseRanged('--lid', o.lid, INPUT_RANGES.lid_km), 0);
-  const upwelling =
-    o.upwelling === undefined ? Number.NaN : attempt(() => parseRanged('--upwelling', o.upwelling as string, INPUT_RANGES.upwelling_mm_yr), Number.NaN);
-  const mode = attempt(() => parseChoice('--mode', o.mode, WATER_MODES), 'batch' as WaterMode);
-  const thermal = attempt(() => parseChoice('--thermal', o.thermal, THERMAL_CHOICES), 'auto' as ThermalModel | 'auto');
-  const step = attempt(() => parseRanged('--step', o.step, STEP_GPA_RANGE), 0.05);
-  if (thermal === 'conductive' && o.upwelling === undefined) problems.push('--thermal conductive needs an upwelling rate: give --upwelling <mm/yr>');
-  if (problems.length > 0) throw new InputError(problems);
-  return {
-    scenario: { tp_c: tp, water_ppm: water, lid_km: lid, upwelling_mm_yr: upwelling },
-    model: defaultModel({ thermal, water: mode, stepGpa: step, withProfile: o.profile !== undefined }),
-  };
+    section[m.key] = 'numeric' in m ? Number(raw) : raw;
+  }
+  // --step allows finer steps than a sweep file (STEP_GPA_RANGE): checked here, set after validation
+  let step: number | undefined;
+  if ('step_gpa' in section) {
+    delete section.step_gpa;
+    try {
+      step = parseRanged('--step', o.step as string, STEP_GPA_RANGE);
+    } catch (err) {
+      if (!(err instanceof InputError)) throw err;
+      problems.push(...err.problems);
+    }
+  }
+  const modelProblems = new ProblemList();
+  const validated = process.model.validate(section, modelProblems);
+  const model = validated !== undefined && step !== undefined ? { ...validated, step_gpa: step } : validated;
+  problems.push(...modelProblems.list().map(flagOfModelProblem));
+  const inputs: Record<string, number> = {};
+  const own = process.inputsFor(model ?? { ...process.model.defaults, params: {} });
+  for (const other of allInputFlags()) {
+    if (o[optionKey(other.cliFlag)] !== undefined && !own.some((i) => i.cliFlag === other.cliFlag)) {
+      problems.push(`--${other.cliFlag}: ${other.name} is not an input of process ${process.name}; its inputs: ${own.map((i) => `${i.name} (--${i.cliFlag})`).join(', ')}`);
+    }
+  }
+  for (const input of own) {
+    const raw = o[optionKey(input.cliFlag)];
+    if (typeof raw === 'string') {
+      try {
+        inputs[input.name] = parseRanged(`--${input.cliFlag}`, raw, input);
+      } catch (err) {
+        if (!(err instanceof InputError)) throw err;
+        problems.push(...err.problems);
+      }
+    } else if (input.default === null) {
+      problems.push(`--${input.cliFlag}: missing; process ${process.name} needs ${input.name} (${input.description}, ${formatRange(input)})`);
+    } else {
+      inputs[input.name] = input.default;
+    }
+  }
+  if (model !== undefined && process.model.checkInputs !== undefined) {
+    const given = new Set(own.filter((i) => Number.isFinite(inputs[i.name])).map((i) => i.name));
+    const checks = new ProblemList();
+    process.model.checkInputs(model, given, checks);
+    problems.push(...checks.list().map(flagOfModelProblem));
+  }
+  if (problems.length > 0 || model === undefined) throw new InputError(problems);
+  return { process, inputs, model };
 }
 
-/** The result as one flat object: status, reason, then every numeric field of the registry. */
-export function resultRecord(r: ColumnResult): Record<string, string | number | null> {
+/** "model.thermal: ..." -> "--thermal: ..." for model keys that have a flag here. */
+function flagOfModelProblem(message: string): string {
+  for (const m of MODEL_FLAGS) {
+    const prefix = `model.${m.key}`;
+    if (message.startsWith(prefix)) return `--${m.flag}${message.slice(prefix.length)}`;
+  }
+  return message;
+}
+
+/** The result as one flat object: status, reason, then every numeric result field of the process. */
+export function resultRecord(process: AnyProcess, r: ProcessResult): Record<string, string | number | null> {
   const out: Record<string, string | number | null> = { [STATUS_FIELD.name]: r.status, [REASON_FIELD.name]: r.reason };
-  for (const f of RESULT_NUMERIC_FIELDS) out[f.name] = r[f.name];
+  for (const f of process.results) out[f.name] = r.values[f.name] ?? null;
   return out;
 }
 
@@ -82,56 +130,66 @@ function formatNumber(v: number | null): string {
   return a >= 1e-3 && a < 1e6 ? String(Number(v.toPrecision(6))) : v.toExponential(4);
 }
 
-/** A short readable table: name, value, unit (units from the field registry). */
-export function resultTable(r: ColumnResult): string {
+/** A short readable table: name, value, unit (units from the process's result fields). */
+export function resultTable(process: AnyProcess, r: ProcessResult): string {
   const rows: [string, string, string][] = [[STATUS_FIELD.name, r.status, '']];
   if (r.reason !== null) rows.push([REASON_FIELD.name, r.reason, '']);
-  for (const f of RESULT_NUMERIC_FIELDS) rows.push([f.name, formatNumber(r[f.name]), r[f.name] === null ? '' : f.unit]);
+  for (const f of process.results) {
+    const v = r.values[f.name] ?? null;
+    rows.push([f.name, formatNumber(v), v === null ? '' : f.unit]);
+  }
   const w0 = Math.max(...rows.map((x) => x[0].length));
   const w1 = Math.max(...rows.filter((x) => x[0] !== REASON_FIELD.name).map((x) => x[1].length));
   return rows.map(([a, b, c]) => `${a.padEnd(w0)}  ${a === REASON_FIELD.name ? b : b.padStart(w1)}${c ? `  ${c}` : ''}`.trimEnd()).join('\n');
 }
 
-/** The profile as CSV: header of PROFILE_FIELDS names (units in the names), one row per point. */
-export function profileCsv(r: ColumnResult): string {
-  const lines = [PROFILE_FIELDS.map((f) => f.name).join(',')];
+/** The profile as CSV: header of the profile field names (units in the names), one row per point. */
+export function profileCsv(fields: readonly FieldInfo[], r: ProcessResult): string {
+  const lines = [fields.map((f) => f.name).join(',')];
   const prof = r.profile;
-  if (prof !== undefined) {
-    const n = prof.p_gpa.length;
-    for (let i = 0; i < n; i++) lines.push(PROFILE_FIELDS.map((f) => String(prof[f.name][i])).join(','));
+  if (prof !== undefined && fields.length > 0) {
+    const n = prof[fields[0].name].length;
+    for (let i = 0; i < n; i++) lines.push(fields.map((f) => String(prof[f.name][i])).join(','));
   }
   return `${lines.join('\n')}\n`;
 }
 
+/** Help text of an input flag: description and range, with the processes that use it when not all do. */
+function inputHelp(input: InputDef): string {
+  const users = allProcesses().filter((p) => p.inputsFor({ ...p.model.defaults, params: {} }).some((i) => i.cliFlag === input.cliFlag));
+  const which = users.length === allProcesses().length ? '' : ` [process ${users.map((p) => p.name).join(', ')}]`;
+  const def = input.default === null ? ' (required)' : Number.isFinite(input.default) && input.default !== 0 ? ` (default ${input.default})` : '';
+  return `${input.description} (${formatRange(input)})${def}${which}`;
+}
+
 export function registerColumn(program: Command): void {
-  program
+  const cmd = program
     .command('column')
     .description('compute one melting column and print its result (exit 1 when the column failed)')
-    .requiredOption('--tp <degC>', `mantle potential temperature (${formatRange(INPUT_RANGES.tp_c)})`)
-    .option('--water <ppm>', `bulk water of the source (${formatRange(INPUT_RANGES.water_ppm)})`, '0')
-    .option('--lid <km>', `lid thickness; melting stops at its base (${formatRange(INPUT_RANGES.lid_km)})`, '0')
-    .option('--upwelling <mm/yr>', `solid upwelling rate (${formatRange(INPUT_RANGES.upwelling_mm_yr)}); gives the melt flux, and selects the conductive model under --thermal auto`)
-    .option('--mode <mode>', `water mode: ${WATER_MODES.join(' or ')}`, 'batch')
-    .option('--thermal <model>', `thermal model: ${THERMAL_CHOICES.join(', ')} (auto: conductive with --upwelling, else isentropic)`, 'auto')
-    .option('--step <GPa>', `isentropic pressure step (${formatRange(STEP_GPA_RANGE)})`, '0.05')
+    .option('--process <name>', `melting process: ${allProcesses().map((p) => p.name).join(', ')}`, DEFAULT_PROCESS);
+  for (const input of allInputFlags()) cmd.option(`--${input.cliFlag} <${input.unit}>`, inputHelp(input));
+  cmd
+    .option('--mode <mode>', 'water mode: batch or fractional (default batch) [process decompression]')
+    .option('--thermal <model>', 'thermal model: isentropic, conductive, auto (default auto: conductive with --upwelling, else isentropic) [process decompression]')
+    .option('--step <GPa>', `isentropic pressure step (${formatRange(STEP_GPA_RANGE)}, default 0.05) [process decompression]`)
     .option('--json', 'print one JSON object: status, reason and every numeric result field (null where not applicable)')
     .option('--profile <file.csv>', 'write the profile along the melting column to a CSV file')
     .action((o: ColumnOptions) => {
-      const { scenario, model } = columnInputs(o);
-      const result = meltColumn(scenario, model);
+      const { process: proc, inputs, model } = columnInputs(o);
+      const runtime = proc.resolveModel(model, { withProfile: o.profile !== undefined });
+      const result = proc.compute(inputs, runtime);
       if (o.profile !== undefined) {
         try {
-          fs.writeFileSync(o.profile, profileCsv(result));
+          fs.writeFileSync(o.profile, profileCsv(proc.profile ?? [], result));
         } catch (err) {
           throw new RunError(`cannot write the profile to ${o.profile}: ${err instanceof Error ? err.message : String(err)}`);
         }
       }
       if (o.json) {
-        process.stdout.write(`${JSON.stringify(resultRecord(result))}\n`);
+        process.stdout.write(`${JSON.stringify(resultRecord(proc, result))}\n`);
       } else {
-        const thermal = resolveThermalModel(scenario, model);
-        const how = model.thermal === 'auto' ? ` (auto: ${Number.isFinite(scenario.upwelling_mm_yr) ? 'an upwelling rate is given' : 'no upwelling rate'})` : '';
-        process.stdout.write(`model: ${thermal}${how}, water ${model.water}\n${resultTable(result)}\n`);
+        const line = proc.describeColumn?.(inputs, runtime) ?? `process: ${proc.name}`;
+        process.stdout.write(`${line}\n${resultTable(proc, result)}\n`);
       }
       if (result.status === 'failed') process.exitCode = EXIT_RUN_FAILED;
     });

@@ -1,0 +1,93 @@
+/**
+ * The process `decompression` (the default): melting of an upwelling mantle column, isentropic or
+ * conductive, dry or wet (src/physics/column.ts). Its inputs, results and profile fields are the
+ * field registry of src/physics/fields.ts; ranges are those of src/physics/ranges.ts.
+ */
+import { meltColumn, resolveThermalModel } from '../physics/column.js';
+import { INPUT_FIELDS, PROFILE_FIELDS, RESULT_NUMERIC_FIELDS } from '../physics/fields.js';
+import { resolveParams } from '../physics/params.js';
+import { INPUT_RANGES } from '../physics/ranges.js';
+import { COLUMN_STATUSES, type ColumnResult, type ModelOptions, type Scenario } from '../physics/types.js';
+import { sampleColumnProfile } from '../run/profile-sampling.js';
+import { MODEL_KEYS, normalizeDecompressionModel, validateModel, type DecompressionModelSpec } from '../spec/validate-model.js';
+import { INPUT_DEFAULTS } from '../spec/input-defaults.js';
+import { STEP_GPA_DEFAULT } from '../spec/limits.js';
+import type { ModelSpec } from '../spec/types.js';
+import type { InputDef, ProcessDefinition, ProcessResult, ResultDef } from './types.js';
+
+/** The --flag of each input of `column` and `plot column` (kept as they always were). */
+const CLI_FLAGS: Readonly<Record<string, string>> = { tp_c: 'tp', water_ppm: 'water', lid_km: 'lid', upwelling_mm_yr: 'upwelling' };
+/** Defaults: tp_c must be given; no upwelling rate means "not given" (NaN). */
+const DEFAULTS: Readonly<Record<string, number | null>> = { tp_c: null, ...INPUT_DEFAULTS };
+
+/** The four inputs in table order, with their ranges (src/physics/ranges.ts). */
+export const DECOMPRESSION_INPUTS: readonly InputDef[] = Object.freeze(
+  INPUT_FIELDS.map((f) => {
+    const r = INPUT_RANGES[f.name];
+    return Object.freeze({ ...f, cliFlag: CLI_FLAGS[f.name], min: r.min, max: r.max, minExclusive: r.minExclusive, default: DEFAULTS[f.name] });
+  }),
+);
+
+/** The result fields in table order. */
+export const DECOMPRESSION_RESULTS: readonly ResultDef[] = RESULT_NUMERIC_FIELDS;
+
+/**
+ * The row of one column. The ColumnResult itself is handed over as `values` (it holds every
+ * result field under its name), so a row costs no copy: this runs once per scenario.
+ */
+function computeDecompression(inputs: Readonly<Record<string, number>>, model: ModelOptions): ProcessResult {
+  const r = meltColumn(inputs as unknown as Scenario, model);
+  const values = r as unknown as Readonly<Record<string, number | null>>;
+  return r.profile === undefined
+    ? { status: r.status, reason: r.reason, values }
+    : { status: r.status, reason: r.reason, values, profile: r.profile as unknown as Readonly<Record<string, Float64Array>> };
+}
+
+/** The process `decompression`. */
+export const decompression: ProcessDefinition<ModelOptions> = {
+  name: 'decompression',
+  title: 'decompression melting of an upwelling column',
+  description:
+    'melting of mantle rising beneath a ridge or plume: isentropic (or conductive with an upwelling rate), dry or wet, stopped at the base of a lid',
+  inputsFor: () => DECOMPRESSION_INPUTS,
+  results: DECOMPRESSION_RESULTS,
+  statuses: COLUMN_STATUSES,
+  model: {
+    keys: MODEL_KEYS,
+    defaults: Object.freeze({ thermal: 'auto', water: 'batch', params: {}, step_gpa: STEP_GPA_DEFAULT }),
+    validate: validateModel,
+    normalize: (m: ModelSpec) => normalizeDecompressionModel(m as DecompressionModelSpec),
+    summary(m) {
+      const model = m as DecompressionModelSpec;
+      return `thermal ${model.thermal}, water ${model.water}, step ${model.step_gpa} GPa`;
+    },
+    checkInputs(model, given, problems) {
+      if ((model as DecompressionModelSpec).thermal !== 'conductive' || given.has('upwelling_mm_yr')) return;
+      problems.add('model.thermal', '"conductive" needs an upwelling rate; sweep upwelling_mm_yr under axes or set it under fixed');
+    },
+  },
+  resolveModel(m, options) {
+    const model = m as DecompressionModelSpec;
+    return {
+      thermal: model.thermal,
+      water: model.water,
+      params: resolveParams(model.params),
+      stepGpa: model.step_gpa,
+      withProfile: options.withProfile,
+    };
+  },
+  compute: computeDecompression,
+  describeColumn(inputs, model) {
+    const thermal = resolveThermalModel(inputs as unknown as Scenario, model);
+    const how = model.thermal === 'auto' ? ` (auto: ${Number.isFinite(inputs.upwelling_mm_yr) ? 'an upwelling rate is given' : 'no upwelling rate'})` : '';
+    return `model: ${thermal}${how}, water ${model.water}`;
+  },
+  profile: PROFILE_FIELDS,
+  profileTable: {
+    sample(result, inputs, model, pressuresGpa, out, row) {
+      const scenario = inputs as unknown as Scenario;
+      const thermal = resolveThermalModel(scenario, model);
+      sampleColumnProfile(result.values as unknown as ColumnResult, scenario.tp_c, scenario.lid_km, thermal, model.params, pressuresGpa, out, row);
+    },
+  },
+};

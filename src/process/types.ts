@@ -1,0 +1,132 @@
+/**
+ * The contract of a melting process (a plug-in): its inputs, result fields, statuses, model
+ * options and compute function, declared as data. Everything generic (sweep validator, planner,
+ * worker, Arrow schema, CSV sidecar, README tables, `column`, inspect, report, sensitivity) reads
+ * a process through these types; nothing generic names an input or a result.
+ */
+import type { FieldInfo } from '../physics/fields.js';
+import type { ColumnStatus } from '../physics/types.js';
+import type { ProfileSamples } from '../run/profile-sampling.js';
+import type { ProblemList } from '../spec/problems.js';
+import type { ModelSpec } from '../spec/types.js';
+
+/**
+ * One scenario input of a process: a float64 column of the results table. Also an allowed range
+ * (`min`/`max` in `unit`), checked the same way by the sweep validator and the CLI.
+ */
+export interface InputDef extends FieldInfo {
+  readonly kind: 'float64';
+  /** the `column` / `plot column` option without dashes, e.g. 'tp' for --tp */
+  readonly cliFlag: string;
+  /** smallest allowed value (inclusive unless minExclusive) */
+  readonly min: number;
+  /** largest allowed value (inclusive) */
+  readonly max: number;
+  /** true when min itself is not allowed */
+  readonly minExclusive: boolean;
+  /**
+   * value when neither swept nor fixed: a number; null = must be swept or fixed; NaN = "not given"
+   * (only where the process allows it: the rows carry NaN and the field is nullable)
+   */
+  readonly default: number | null;
+}
+
+/** A numeric result column of a process (float64; NaN in the typed arrays = null). */
+export interface ResultDef extends FieldInfo {
+  readonly kind: 'float64';
+}
+
+/** What compute returns for one scenario. */
+export interface ProcessResult {
+  readonly status: ColumnStatus;
+  /** why the scenario failed or fell outside the range; null for ok and no_melt rows */
+  readonly reason: string | null;
+  /** every result field of the process by name (null where it does not apply) */
+  readonly values: Readonly<Record<string, number | null>>;
+  /** arrays along the column (only when the model asked for them), keyed by profile field name */
+  readonly profile?: Readonly<Record<string, Float64Array>>;
+}
+
+/** The `model` section of a sweep file, as far as a process is concerned. */
+export interface ProcessModelOptions {
+  /** model keys this process accepts, besides `process` (e.g. thermal, water, params, step_gpa) */
+  readonly keys: readonly string[];
+  /** the value of each optional key when the file leaves it out */
+  readonly defaults: Readonly<Record<string, unknown>>;
+  /**
+   * Validate the section (every problem recorded with its path, e.g. `model.thermal`) and
+   * return its normalized, JSON-plain form (key order fixed; `process` omitted for the default
+   * process so stored specs and hashes of older files do not change), or undefined on a problem.
+   */
+  validate(raw: Readonly<Record<string, unknown>>, problems: ProblemList): ModelSpec | undefined;
+  /** the canonical form of an already valid section (used by normalizeSweep) */
+  normalize(model: ModelSpec): ModelSpec;
+  /**
+   * Checks that need the model and the inputs a sweep gives (swept or fixed), e.g. "conductive
+   * needs an upwelling rate". Optional.
+   */
+  checkInputs?(model: ModelSpec, given: ReadonlySet<string>, problems: ProblemList): void;
+  /** the options in words for `plan` (e.g. "thermal auto, water batch, step 0.05 GPa"); absent: "key value" pairs */
+  summary?(model: ModelSpec): string;
+}
+
+/** How a run asks for a process's runtime model. */
+export interface ResolveOptions {
+  /** the columns keep their profile arrays */
+  readonly withProfile: boolean;
+}
+
+/**
+ * A melting process. `M` is its runtime model (parameters resolved, options read), built once
+ * per thread by `resolveModel` and handed to every `compute` call.
+ */
+export interface ProcessDefinition<M = unknown> {
+  /** registry key, written as `model.process` and in the schema metadata `meltsweep.process` */
+  readonly name: string;
+  /** one-line title, e.g. "decompression melting of an upwelling column" */
+  readonly title: string;
+  readonly description: string;
+  /** its inputs in table order; a function of the model section (options may remove inputs) */
+  inputsFor(model: ModelSpec): readonly InputDef[];
+  /** its numeric result fields in table order (status and reason are common to all processes) */
+  readonly results: readonly ResultDef[];
+  /** the statuses it can produce (a subset of COLUMN_STATUSES) */
+  readonly statuses: readonly ColumnStatus[];
+  readonly model: ProcessModelOptions;
+  /** the runtime model of a validated model section */
+  resolveModel(model: ModelSpec, options: ResolveOptions): M;
+  /**
+   * One scenario: pure, thread-safe, never throws (an exception is a `failed` row with the
+   * reason). `inputs` holds every input of inputsFor(model) by name; the object may be reused
+   * by the caller for the next row, so do not keep it.
+   */
+  compute(inputs: Readonly<Record<string, number>>, model: M): ProcessResult;
+  /** the first line `meltsweep column` prints above the result table (absent: "process: NAME") */
+  describeColumn?(inputs: Readonly<Record<string, number>>, model: M): string;
+  /** fields of the profile arrays (column --profile, plot column); absent: no profiles */
+  readonly profile?: readonly FieldInfo[];
+  /**
+   * Optional: sample a computed column onto a fixed pressure grid for the profile table
+   * (`run --profiles`); absent: the process writes no profile table.
+   */
+  readonly profileTable?: ProfileTableSampler<M>;
+}
+
+/** Sampling of computed columns onto the profile-table grid (see src/run/profile-sampling.ts). */
+export interface ProfileTableSampler<M> {
+  /**
+   * Write row `row` of `out` from one computed scenario (result computed with withProfile).
+   * `pressuresGpa` ascending.
+   */
+  sample(
+    result: ProcessResult,
+    inputs: Readonly<Record<string, number>>,
+    model: M,
+    pressuresGpa: Float64Array,
+    out: ProfileSamples,
+    row: number,
+  ): void;
+}
+
+/** A registered process with its runtime-model type erased (see defineProcess in registry.ts). */
+export type AnyProcess = ProcessDefinition<unknown>;
