@@ -15,7 +15,10 @@ import { analyzeResultsFile } from '../run/sensitivity-file.js';
 import { columnDiagramSpec } from './column-diagram.js';
 import { columnDiagramData, scenarioLabels, type DiagramScenario } from './column-diagram-data.js';
 import { htmlFigure, htmlPage, escapeHtml } from './html.js';
-import { fieldInfo, formatNumber } from './labels.js';
+import { labelOf, valueWithUnit } from './labels.js';
+
+/** Words for the representative picks in legends. */
+const WHICH: Readonly<Record<string, string>> = { min: 'smallest', median: 'median', max: 'largest' };
 import { renderSvg, type PlotSpec } from './render.js';
 import { resolveReportOptions, type ReportOptions } from './report-options.js';
 import { metadataSection } from './report-metadata.js';
@@ -121,14 +124,13 @@ export async function buildHtmlReport(file: string, options: ReportOptions = {})
         upwelling_mm_yr: table.inputs.upwelling_mm_yr[p.row],
       }));
       const auto = scenarioLabels(scenarios);
-      const unit = fieldInfo(repOutput).unit;
       const items: DiagramScenario[] = picks.map((p, k) => ({
         scenario: scenarios[k],
-        label: `${p.which} ${repOutput} ${formatNumber(table.outputs[repOutput][p.row])} ${unit}: ${auto[k]}`,
+        label: `${WHICH[p.which]} ${labelOf(repOutput)} ${valueWithUnit(repOutput, table.outputs[repOutput][p.row])}: ${auto[k]}`,
       }));
       const data = columnDiagramData(items, sweepModel(spec, meta.params));
-      const plot = columnDiagramSpec(data, { title: `Representative columns`, subtitle: `smallest, median and largest ${repOutput} among ok rows` });
-      columns.push(await figure('column', repOutput, plot, `Temperature and melt fraction against depth for the ok rows with the smallest, median and largest ${repOutput}. Thin line: solid adiabat; thick: melting path; dashed: conductive profile; shaded: lid and melting interval.`));
+      const plot = columnDiagramSpec(data, { title: `Representative columns: smallest, median and largest ${labelOf(repOutput)}`, subtitle: `among the ok rows of ${spec.name}` });
+      columns.push(await figure('column', repOutput, plot, `Temperature and melt fraction against depth for the ok rows with the smallest, median and largest ${repOutput}. The key below the diagram explains the marks.`));
     } else {
       notes.push(`no ok row has a value of ${repOutput}: no representative columns`);
     }
