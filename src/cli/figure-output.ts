@@ -6,7 +6,7 @@ import fs from 'node:fs';
 import path from 'node:path';
 import type { Command } from 'commander';
 import { InputError } from '../errors.js';
-import { DEFAULT_DPI, formatOfPath, parseDpiOption, parseWidthOption, type ExportSize, type FigureFormat } from '../report/export.js';
+import { DEFAULT_DPI, formatOfPath, parseDpiOption, parseWidthOption, type ExportSize, type FigureFormat } from '../report/export-options.js';
 
 /** Raw values of the shared picture options. */
 export interface FigureCliOptions {

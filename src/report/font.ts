@@ -8,7 +8,7 @@
 import fs from 'node:fs';
 import { createRequire } from 'node:module';
 import path from 'node:path';
-import * as fontkit from 'fontkit';
+import type * as Fontkit from 'fontkit';
 
 /** The CSS family name of the house font. */
 export const FONT_FAMILY = 'DejaVu Sans';
@@ -25,11 +25,13 @@ export function fontFiles(): { readonly regular: string; readonly bold: string }
   return { regular, bold };
 }
 
-let fonts: { regular: fontkit.Font; bold: fontkit.Font } | null = null;
+let fonts: { regular: Fontkit.Font; bold: Fontkit.Font } | null = null;
 const cache = new Map<string, number>();
 
-function loaded(): { regular: fontkit.Font; bold: fontkit.Font } {
+function loaded(): { regular: Fontkit.Font; bold: Fontkit.Font } {
   if (fonts === null) {
+    // loaded on first use: commands that draw nothing never pay for the font engine
+    const fontkit = createRequire(import.meta.url)('fontkit') as typeof Fontkit;
     const f = fontFiles();
     fonts = { regular: fontkit.openSync(f.regular), bold: fontkit.openSync(f.bold) };
   }

@@ -40,11 +40,17 @@ function decodePng(png: Buffer): { width: number; height: number; dpi: number | 
       const a = i >= 4 ? pixels[y * stride + i - 4] : 0;
       const b = y > 0 ? pixels[(y - 1) * stride + i] : 0;
       const c = i >= 4 && y > 0 ? pixels[(y - 1) * stride + i - 4] : 0;
-      const p = a + b - c;
-      const pa = Math.abs(p - a);
-      const pb = Math.abs(p - b);
-      const pc = Math.abs(p - c);
-      const pred = [0, a, b, (a + b) >> 1, pa <= pb && pa <= pc ? a : pb <= pc ? b : c][filter];
+      let pred = 0;
+      if (filter === 1) pred = a;
+      else if (filter === 2) pred = b;
+      else if (filter === 3) pred = (a + b) >> 1;
+      else if (filter === 4) {
+        const p = a + b - c;
+        const pa = Math.abs(p - a);
+        const pb = Math.abs(p - b);
+        const pc = Math.abs(p - c);
+        pred = pa <= pb && pa <= pc ? a : pb <= pc ? b : c;
+      }
       pixels[y * stride + i] = (x + pred) & 0xff;
     }
   }
