@@ -151,6 +151,20 @@ describe('slow upwelling cuts melting back', () => {
     });
   }
 
+  it('taking w = half the full spreading rate, crust thins sharply below ~20 mm/yr full rate', () => {
+    // Bown & White 1994 (EPSL 121): crust thins sharply at ultraslow spreading, below ~20 mm/yr full
+    // rate. The 1D column takes the upwelling rate w; beneath a passive ridge axis w ~ half the full
+    // rate (the README's convention), so 20 mm/yr full is w = 10 mm/yr.
+    for (const lid of [0, 5]) {
+      const crust = (halfRate: number): number => conductiveColumn(scenario(1350, 0, lid, halfRate), MODEL).crust_km ?? NaN;
+      const fast = crust(1000);
+      expect(crust(10) / fast).toBeGreaterThan(0.85); // 20 mm/yr full: close to the fast-spreading value
+      expect(crust(2.5) / fast).toBeLessThan(0.5); // 5 mm/yr full: less than half of it
+      // the drop is concentrated below 20 mm/yr full
+      expect(crust(10) - crust(2.5)).toBeGreaterThan(3 * (fast - crust(10)));
+    }
+  });
+
   it('the depth where melting stops moves down as w slows; onset barely moves at fast rates', () => {
     const stop = [100, 10, 3].map((w) => {
       const s = solved(scenario(1350, 0, 10, w));
