@@ -15,13 +15,13 @@
  *   the model range (0.1 mm/yr: kappa/w ~ 315 km): nodes deeper than MODEL_MAX_P_GPA never melt.
  * - Melt is extracted as it forms: F is the running maximum of the equilibrium F along the upward
  *   path (no refreezing); latent heat uses that F.
- * - Aggregates: the melting column runs from the onset (deepest F > 0, interpolated between nodes
- *   on the excess over the wet solidus) to the lid base, as in the isentropic column. Above the depth
- *   where F last increases the extracted F stays at its maximum, and the crust integral
- *   (1/(rho_c g)) int F dP runs up to the lid base: in the passive triangular regime the apex is where
- *   the flow turns (the lid base), and each column contributes the melt it extracted before turning.
- *   top_p_gpa / top_depth_km are therefore the lid base and t_top_c is the temperature there (the
- *   surface temperature with no lid); the depth where melting stops is in ConductiveState.
+ * - Aggregates: the melting interval runs from the onset (deepest F > 0, interpolated between nodes
+ *   on the excess over the wet solidus) up to where melting stops, the shallowest node where F still
+ *   increases (meltStopIndex): top_p_gpa / top_depth_km / t_top_c are there, and f_mean and the
+ *   productivity are taken over that interval. Above it the extracted F stays at its maximum, and the
+ *   crust integral (1/(rho_c g)) int F dP runs up to the lid base: in the passive triangular regime the
+ *   apex is where the flow turns (the lid base), and each column contributes the melt it extracted
+ *   before turning.
  * - Water: batch mode only. In fractional mode the residue water depends on the whole path and the
  *   node equations lose their local (tridiagonal) structure; such rows fail with
  *   "fractional water is not available with the conductive model".
@@ -235,11 +235,15 @@ function summarize(s: ConductiveState, x0: number, p: MeltParams, withProfile: b
     if (i === io || s.fEq[i] > f[i + 1]) argMax = i;
     water[i] = x0 > 0 ? f[i] * batchMeltWaterWtPct(f[i], pGpa[argMax], x0, p) : 0;
   }
+  const stop = Math.max(0, Math.min(s.meltStopIndex, io));
   let meltInt = 0.5 * f[io] * (onsetPGpa - pGpa[io]);
   let waterInt = 0.5 * water[io] * (onsetPGpa - pGpa[io]);
+  let intervalInt = meltInt;
   for (let i = 0; i < io; i++) {
     const dp = pGpa[i + 1] - pGpa[i];
-    meltInt += 0.5 * (f[i] + f[i + 1]) * dp;
+    const cell = 0.5 * (f[i] + f[i + 1]) * dp;
+    meltInt += cell;
+    if (i >= stop) intervalInt += cell;
     waterInt += 0.5 * (water[i] + water[i + 1]) * dp;
   }
   let profile: ColumnProfile | undefined;
@@ -264,13 +268,16 @@ function summarize(s: ConductiveState, x0: number, p: MeltParams, withProfile: b
     }
     profile = pr;
   }
+  // a stop at the onset node itself (a single melting node) leaves the interval to the interpolated onset
+  const topPGpa = stop === io && onsetPGpa <= pGpa[io] ? pGpa[Math.max(0, io - 1)] : pGpa[stop];
   return {
     onsetPGpa,
-    topPGpa: pGpa[0],
+    topPGpa,
     fMax: f[0],
     fTop: f[0],
-    tTopC: tC[0],
+    tTopC: stop === io && onsetPGpa <= pGpa[io] ? tC[Math.max(0, io - 1)] : tC[stop],
     meltIntegralGpa: meltInt,
+    meltingIntervalIntegralGpa: intervalInt,
     waterIntegralWtPctGpa: waterInt,
     surfaceHeatFlowMwM2: s.surfaceHeatFlowMwM2,
     profile,
