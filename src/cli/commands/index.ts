@@ -8,6 +8,7 @@ import { registerSensitivity } from './sensitivity.js';
 import { registerPlot } from './plot.js';
 import { registerReport } from './report.js';
 import { registerInspect } from './inspect.js';
+import { registerFit } from './fit.js';
 
 /** Every command, in the order `meltsweep --help` lists them. */
 export function registerCommands(program: Command): void {
@@ -17,6 +18,7 @@ export function registerCommands(program: Command): void {
   registerMerge(program);
   registerColumn(program);
   registerSensitivity(program);
+  registerFit(program);
   registerPlot(program);
   registerReport(program);
   registerInspect(program);

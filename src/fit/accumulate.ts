@@ -1,0 +1,377 @@
+/**
+ * The streaming core of a fit: record batches in, weighted sums out, in one pass and bounded memory
+ * (per row only the log-likelihood, the id and the observed and predicted outputs are kept).
+ *
+ * Weights are handled in log space: every sum is held relative to the largest log-likelihood M
+ * seen so far (w = exp(ll - M) <= 1), and when a batch raises M the sums are rescaled once by
+ * exp(M_old - M_new). Nothing underflows however far the rows lie from the observations
+ * (log-sum-exp), and the normalised weights are exp(ll - M) / sum exp(ll - M).
+ */
+import { InputError } from '../errors.js';
+import { axisCells, groupCells, type Cells } from './cells.js';
+import type { FitBatch, FitSetup } from './types.js';
+
+/** Display cells per input of the two-input panels (finer cells are grouped). */
+export const PAIR_CELLS = 64;
+
+/** Statuses left out by default: their outputs were not computed. */
+export const DEFAULT_LEAVE_OUT: readonly string[] = ['failed', 'onset_beyond_range'];
+
+const LOG_2PI = Math.log(2 * Math.PI);
+
+/** Sums over the rows, relative to the running maximum log-likelihood (see the file comment). */
+export interface FitSums {
+  readonly names: readonly string[];
+  readonly cells: readonly Cells[];
+  /** posterior mass per cell, per input */
+  readonly post: readonly Float64Array[];
+  /** prior row count per cell, per input (every row with a value, used or not) */
+  readonly priorCount: readonly Float64Array[];
+  /** posterior sum of w (x - shift) and w (x - shift)^2 per input */
+  readonly m1: Float64Array;
+  readonly m2: Float64Array;
+  /** prior sums of (x - shift), (x - shift)^2 and rows per input */
+  readonly p1: Float64Array;
+  readonly p2: Float64Array;
+  readonly pn: Float64Array;
+  /** subtracted from x before summing (the middle of the range): keeps the variance exact */
+  readonly shift: Float64Array;
+  /** pair (a, b), a < b in axis order: mass[gb * groupsA + ga] */
+  readonly pairs: readonly { readonly a: number; readonly b: number; readonly mass: Float64Array }[];
+  readonly groups: readonly { readonly groupOf: Int32Array; readonly edgesT: Float64Array }[];
+  s1: number;
+  s2: number;
+  /** the running maximum log-likelihood (-Infinity before the first used row) */
+  maxLl: number;
+}
+
+/** Per-row arrays, grown by doubling. */
+interface RowStore {
+  ll: Float64Array;
+  ids: Float64Array;
+  outputs: Record<string, Float64Array>;
+}
+
+/**
+ * Accumulates a fit over batches. Call add() for every batch in row order, then finish()
+ * (see fit-result.ts) to get weights and summaries.
+ */
+export class FitAccumulator {
+  readonly setup: FitSetup;
+  readonly obsNames: readonly string[];
+  readonly obsValue: Float64Array;
+  readonly obsInvVar: Float64Array;
+  readonly obsTotalSd: Float64Array;
+  /** log-likelihood constant: -sum ln sd_k - K/2 ln 2 pi */
+  readonly llConstant: number;
+  readonly statuses: readonly string[];
+  /** 1 for status codes that are left out */
+  private readonly leave: Uint8Array;
+  /** output names kept per row (observed first, then predicted) */
+  readonly stored: readonly string[];
+  readonly sums: FitSums;
+  /** left-out counts: [code] for left-out statuses, [statuses + code * K + k] for a null output */
+  private readonly leftOut: Float64Array;
+  readonly usedByCode: Float64Array;
+  rows = 0;
+  within3Sd = 0;
+  bestLl = -Infinity;
+  bestRow = -1;
+  bestInputs: Record<string, number> = {};
+  bestOutputs: Record<string, number> = {};
+  private store: RowStore;
+  private scratchIdx: Int32Array[] = [];
+
+  constructor(setup: FitSetup) {
+    if (setup.observations.length === 0) throw new InputError('fit: no observation given; observe at least one output, e.g. crust_km=7.1+-0.8');
+    if (setup.prior.axes.length === 0) throw new InputError('fit: the sweep swept no input; a posterior needs at least one swept input');
+    this.setup = setup;
+    const obs = setup.observations;
+    this.obsNames = obs.map((o) => o.output);
+    this.obsValue = Float64Array.from(obs.map((o) => o.value));
+    this.obsTotalSd = Float64Array.from(obs.map((o) => Math.hypot(o.sd, o.discrepancySd ?? 0)));
+    this.obsInvVar = this.obsTotalSd.map((s) => 1 / (s * s));
+    let c = -0.5 * obs.length * LOG_2PI;
+    for (const s of this.obsTotalSd) c -= Math.log(s);
+    this.llConstant = c;
+    this.statuses = setup.statuses ?? ['ok'];
+    if (this.statuses.length > 255) throw new InputError(`fit: at most 255 statuses, got ${this.statuses.length}`);
+    const leaveOut = new Set(setup.leaveOut ?? DEFAULT_LEAVE_OUT);
+    this.leave = Uint8Array.from(this.statuses.map((s) => (leaveOut.has(s) ? 1 : 0)));
+    this.stored = [...new Set([...this.obsNames, ...(setup.predict ?? [])])];
+    this.leftOut = new Float64Array(this.statuses.length * (1 + obs.length));
+    this.usedByCode = new Float64Array(this.statuses.length);
+    this.sums = createSums(setup);
+    this.store = { ll: new Float64Array(0), ids: new Float64Array(0), outputs: Object.fromEntries(this.stored.map((n) => [n, new Float64Array(0)])) };
+    this.grow(Math.max(1024, setup.expectedRows ?? 0));
+  }
+
+  private grow(need: number): void {
+    const cap = this.store.ll.length;
+    if (need <= cap) return;
+    const size = Math.max(need, cap * 2);
+    const extend = (a: Float64Array): Float64Array => {
+      const b = new Float64Array(size);
+      b.set(a.subarray(0, this.rows));
+      return b;
+    };
+    this.store = {
+      ll: extend(this.store.ll),
+      ids: extend(this.store.ids),
+      outputs: Object.fromEntries(this.stored.map((n) => [n, extend(this.store.outputs[n])])),
+    };
+  }
+
+  /**
+   * Add the next batch of rows.
+   * @returns the row (within this batch) of a new best-fitting row, or -1 when the best is unchanged
+   * @throws InputError when a column the fit needs is missing or short
+   */
+  add(batch: FitBatch): number {
+    const n = batch.rows;
+    const K = this.obsNames.length;
+    const outs = this.obsNames.map((name) => columnOf(batch.outputs, name, n, 'output'));
+    const ins = this.sums.names.map((name) => columnOf(batch.inputs, name, n, 'input'));
+    const kept = this.stored.map((name) => columnOf(batch.outputs, name, n, 'output'));
+    const status = batch.status;
+    if (status !== undefined && status.length < n) throw new InputError(`fit: the status codes hold ${status.length} rows, the batch ${n}`);
+    this.grow(this.rows + n);
+    const pos = this.rows;
+    const ll = this.store.ll;
+    const values = this.obsValue;
+    const inv = this.obsInvVar;
+    const leave = this.leave;
+    const nStatus = this.statuses.length;
+    let batchMax = -Infinity;
+    let within = 0;
+
+    // pass 1: the log-likelihood of every row (NaN = left out, counted by reason)
+    for (let r = 0; r < n; r++) {
+      const code = status === undefined ? 0 : status[r];
+      if (code >= nStatus) throw new InputError(`fit: status code ${code} at row ${pos + r} is not one of the ${nStatus} statuses`);
+      if (leave[code] === 1) {
+        this.leftOut[code] += 1;
+        ll[pos + r] = NaN;
+        continue;
+      }
+      let chi2 = 0;
+      let worst = 0;
+      let nullAt = -1;
+      for (let k = 0; k < K; k++) {
+        const d = outs[k][r] - values[k];
+        if (d - d !== 0) {
+          nullAt = k;
+          break;
+        }
+        const z2 = d * d * inv[k];
+        chi2 += z2;
+        if (z2 > worst) worst = z2;
+      }
+      if (nullAt >= 0) {
+        this.leftOut[nStatus + code * K + nullAt] += 1;
+        ll[pos + r] = NaN;
+        continue;
+      }
+      const l = this.llConstant - 0.5 * chi2;
+      ll[pos + r] = l;
+      this.usedByCode[code] += 1;
+      if (worst <= 9) within++;
+      if (l > batchMax) batchMax = l;
+    }
+    this.within3Sd += within;
+
+    const s = this.sums;
+    if (batchMax > s.maxLl) {
+      if (s.maxLl > -Infinity) rescale(s, Math.exp(s.maxLl - batchMax));
+      s.maxLl = batchMax;
+    }
+    let newBest = -1;
+    if (batchMax > this.bestLl) {
+      for (let r = 0; r < n; r++) {
+        if (ll[pos + r] === batchMax) {
+          newBest = r;
+          break;
+        }
+      }
+      this.bestLl = batchMax;
+      this.bestRow = pos + newBest;
+      this.bestInputs = Object.fromEntries(this.sums.names.map((name, a) => [name, ins[a][newBest]]));
+      this.bestOutputs = Object.fromEntries(this.stored.map((name, k) => [name, kept[k][newBest]]));
+    }
+
+    // pass 2: cells of every input, then the weighted sums
+    const idx = this.cellIndices(ins, n);
+    accumulatePrior(s, ins, idx, n);
+    accumulatePosterior(s, ins, idx, ll, pos, n);
+
+    for (let k = 0; k < this.stored.length; k++) this.store.outputs[this.stored[k]].set(kept[k].subarray(0, n), pos);
+    if (batch.ids !== undefined) {
+      if (batch.ids.length < n) throw new InputError(`fit: the ids hold ${batch.ids.length} rows, the batch ${n}`);
+      this.store.ids.set(batch.ids.subarray(0, n), pos);
+    } else {
+      for (let r = 0; r < n; r++) this.store.ids[pos + r] = pos + r;
+    }
+    this.rows += n;
+    return newBest;
+  }
+
+  private cellIndices(ins: readonly Float64Array[], n: number): Int32Array[] {
+    if (this.scratchIdx.length === 0 || this.scratchIdx[0].length < n) {
+      this.scratchIdx = ins.map(() => new Int32Array(Math.max(n, 4096)));
+    }
+    ins.forEach((x, a) => {
+      const cells = this.sums.cells[a];
+      const out = this.scratchIdx[a];
+      for (let r = 0; r < n; r++) out[r] = cells.index(x[r]);
+    });
+    return this.scratchIdx;
+  }
+
+  /** Left-out rows by reason: a status, or "<status>: <output> is null". */
+  leftOutCounts(): Record<string, number> {
+    const out: Record<string, number> = {};
+    const K = this.obsNames.length;
+    this.statuses.forEach((s, code) => {
+      if (this.leftOut[code] > 0) out[s] = this.leftOut[code];
+      for (let k = 0; k < K; k++) {
+        const c = this.leftOut[this.statuses.length + code * K + k];
+        if (c > 0) out[`${s}: ${this.obsNames[k]} is null`] = c;
+      }
+    });
+    return out;
+  }
+
+  /** The per-row arrays, trimmed to the rows seen (views, not copies). */
+  rowArrays(): { readonly ll: Float64Array; readonly ids: Float64Array; readonly outputs: Readonly<Record<string, Float64Array>> } {
+    const n = this.rows;
+    return {
+      ll: this.store.ll.subarray(0, n),
+      ids: this.store.ids.subarray(0, n),
+      outputs: Object.fromEntries(this.stored.map((name) => [name, this.store.outputs[name].subarray(0, n)])),
+    };
+  }
+}
+
+function columnOf(cols: Readonly<Record<string, Float64Array>>, name: string, n: number, what: string): Float64Array {
+  const c = cols[name];
+  if (c === undefined) throw new InputError(`fit: the batch has no ${what} column "${name}" (${what}s given: ${Object.keys(cols).join(', ') || 'none'})`);
+  if (c.length < n) throw new InputError(`fit: ${what} column "${name}" holds ${c.length} rows, the batch ${n}`);
+  return c;
+}
+
+function createSums(setup: FitSetup): FitSums {
+  const axes = setup.prior.axes;
+  const grid = setup.prior.kind === 'grid';
+  const cells = axes.map((a) => axisCells(a, grid));
+  const groups = cells.map((c) => groupCells(c.edgesT, PAIR_CELLS));
+  const pairs: { a: number; b: number; mass: Float64Array }[] = [];
+  for (let a = 0; a < axes.length; a++) {
+    for (let b = a + 1; b < axes.length; b++) {
+      pairs.push({ a, b, mass: new Float64Array((groups[a].edgesT.length - 1) * (groups[b].edgesT.length - 1)) });
+    }
+  }
+  const k = axes.length;
+  return {
+    names: axes.map((a) => a.name),
+    cells,
+    post: cells.map((c) => new Float64Array(c.count)),
+    priorCount: cells.map((c) => new Float64Array(c.count)),
+    m1: new Float64Array(k),
+    m2: new Float64Array(k),
+    p1: new Float64Array(k),
+    p2: new Float64Array(k),
+    pn: new Float64Array(k),
+    shift: Float64Array.from(axes.map((a) => 0.5 * (a.min + a.max))),
+    pairs,
+    groups,
+    s1: 0,
+    s2: 0,
+    maxLl: -Infinity,
+  };
+}
+
+/** Multiply every weighted sum by f (the running maximum rose). */
+function rescale(s: FitSums, f: number): void {
+  for (const m of s.post) for (let i = 0; i < m.length; i++) m[i] *= f;
+  for (const p of s.pairs) for (let i = 0; i < p.mass.length; i++) p.mass[i] *= f;
+  for (let a = 0; a < s.m1.length; a++) {
+    s.m1[a] *= f;
+    s.m2[a] *= f;
+  }
+  s.s1 *= f;
+  s.s2 *= f * f;
+}
+
+function accumulatePrior(s: FitSums, ins: readonly Float64Array[], idx: readonly Int32Array[], n: number): void {
+  for (let a = 0; a < ins.length; a++) {
+    const x = ins[a];
+    const ix = idx[a];
+    const count = s.priorCount[a];
+    const shift = s.shift[a];
+    let p1 = 0;
+    let p2 = 0;
+    let pn = 0;
+    for (let r = 0; r < n; r++) {
+      const i = ix[r];
+      if (i < 0) continue;
+      count[i] += 1;
+      const d = x[r] - shift;
+      p1 += d;
+      p2 += d * d;
+      pn += 1;
+    }
+    s.p1[a] += p1;
+    s.p2[a] += p2;
+    s.pn[a] += pn;
+  }
+}
+
+function accumulatePosterior(s: FitSums, ins: readonly Float64Array[], idx: readonly Int32Array[], ll: Float64Array, pos: number, n: number): void {
+  const maxLl = s.maxLl;
+  const k = ins.length;
+  let s1 = 0;
+  let s2 = 0;
+  const w = new Float64Array(n);
+  for (let r = 0; r < n; r++) {
+    const l = ll[pos + r];
+    if (l !== l) continue;
+    const v = Math.exp(l - maxLl);
+    w[r] = v;
+    s1 += v;
+    s2 += v * v;
+  }
+  s.s1 += s1;
+  s.s2 += s2;
+  for (let a = 0; a < k; a++) {
+    const x = ins[a];
+    const ix = idx[a];
+    const post = s.post[a];
+    const shift = s.shift[a];
+    let m1 = 0;
+    let m2 = 0;
+    for (let r = 0; r < n; r++) {
+      const v = w[r];
+      const i = ix[r];
+      if (v === 0 || i < 0) continue;
+      post[i] += v;
+      const d = x[r] - shift;
+      m1 += v * d;
+      m2 += v * d * d;
+    }
+    s.m1[a] += m1;
+    s.m2[a] += m2;
+  }
+  for (const p of s.pairs) {
+    const ga = s.groups[p.a].groupOf;
+    const gb = s.groups[p.b].groupOf;
+    const width = s.groups[p.a].edgesT.length - 1;
+    const ia = idx[p.a];
+    const ib = idx[p.b];
+    const mass = p.mass;
+    for (let r = 0; r < n; r++) {
+      const v = w[r];
+      if (v === 0 || ia[r] < 0 || ib[r] < 0) continue;
+      mass[gb[ib[r]] * width + ga[ia[r]]] += v;
+    }
+  }
+}
