@@ -10,7 +10,7 @@ import { CATEGORICAL, HEATMAP_SCHEME, INK } from './theme.js';
 
 const POSTERIOR = CATEGORICAL[0];
 const OBSERVED = CATEGORICAL[1];
-const PRIOR = '#b8c0c9';
+const PRIOR = '#6f7883';
 const SCHEMA = 'https://vega.github.io/schema/vega-lite/v6.json';
 
 /** "name (unit)". */
@@ -41,6 +41,26 @@ function bars(h: FitHistogram, log: boolean): Bar[] {
   return out;
 }
 
+/** The posterior as filled cells, the prior as an outline on top (both stay visible). */
+function densityLayers(name: string, h: FitHistogram, log: boolean, yTitle: string, x: Record<string, unknown>): Record<string, unknown>[] {
+  const all = bars(h, log);
+  const y = { field: 'density', type: 'quantitative', title: yTitle, axis: { tickCount: 4, grid: true, format: '.2~g' } };
+  return [
+    {
+      name: `${name}_posterior`,
+      data: { values: all.filter((b) => b.which === 'posterior') },
+      mark: { type: 'rect', opacity: 0.85, stroke: null },
+      encoding: { x, x2: { field: 'x1' }, y, y2: { datum: 0 }, color: colour },
+    },
+    {
+      name: `${name}_prior`,
+      data: { values: all.filter((b) => b.which === 'prior') },
+      mark: { type: 'rect', filled: false, strokeWidth: 1.1, opacity: 0.9 },
+      encoding: { x, x2: { field: 'x1' }, y, y2: { datum: 0 }, color: colour },
+    },
+  ];
+}
+
 const colour = {
   field: 'which',
   type: 'nominal' as const,
@@ -66,12 +86,7 @@ export function marginalSpec(h: FitHistogram, summary: FitSummary, unit: string,
         mark: { type: 'rect', color: POSTERIOR, opacity: 0.1 },
         encoding: { x: { ...x, field: 'a' }, x2: { field: 'b' } },
       },
-      {
-        name: 'marginal_bars',
-        data: { values: bars(h, log) },
-        mark: { type: 'rect', opacity: 0.8, stroke: null },
-        encoding: { x, x2: { field: 'x1' }, y: { field: 'density', type: 'quantitative', title: log ? 'density per ln unit' : 'density', axis: { tickCount: 4, grid: true, format: '.2~g' } }, y2: { datum: 0 }, color: colour },
-      },
+      ...densityLayers('marginal', h, log, log ? 'density per ln unit' : 'density', x),
       {
         data: { values: [{ m: summary.p50 }] },
         mark: { type: 'rule', color: INK, strokeWidth: 1.4, strokeDash: [4, 3] },
@@ -174,12 +189,7 @@ export function predictiveSpec(h: FitHistogram, unit: string, observed: { readon
       encoding: { x: { ...x, field: 'a' }, x2: { field: 'b' } },
     });
   }
-  layers.push({
-    name: 'predictive_bars',
-    data: { values: bars(h, false) },
-    mark: { type: 'rect', opacity: 0.8, stroke: null },
-    encoding: { x, x2: { field: 'x1' }, y: { field: 'density', type: 'quantitative', title: 'density', axis: { tickCount: 4, grid: true, format: '.2~g' } }, y2: { datum: 0 }, color: colour },
-  });
+  layers.push(...densityLayers('predictive', h, false, 'density', x));
   if (observed !== null) {
     layers.push({
       name: 'observed_value',
