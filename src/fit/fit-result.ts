@@ -202,7 +202,7 @@ export function finishFit(acc: FitAccumulator): FitResult {
     ess,
     rowsWithin3Sd: acc.within3Sd,
     observations,
-    priorText: describePrior(acc.setup.prior),
+    priorText: describePrior(acc.setup.prior, acc.setup.units),
     prior,
     posterior,
     range99,

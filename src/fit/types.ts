@@ -50,6 +50,8 @@ export interface FitSetup {
   readonly statuses?: readonly string[];
   /** statuses whose rows are left out whatever their values (default: failed, onset_beyond_range) */
   readonly leaveOut?: readonly string[];
+  /** unit of each input by name, for the sentence stating the prior */
+  readonly units?: Readonly<Record<string, string>>;
   /** rows expected in all (sizes the per-row arrays once; they grow when more arrive) */
   readonly expectedRows?: number;
 }

@@ -165,6 +165,7 @@ export async function fitResultsFile(file: string, options: FitFileOptions): Pro
     observations: checked.observations,
     prior,
     predict: checked.predict,
+    units,
     statuses: FIT_STATUSES,
     leaveOut: ['failed', 'onset_beyond_range', 'unknown'],
     expectedRows: meta.rowEnd - meta.rowStart,
