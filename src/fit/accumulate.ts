@@ -9,10 +9,14 @@
  */
 import { InputError } from '../errors.js';
 import { axisCells, groupCells, type Cells } from './cells.js';
+import { PredictiveAccumulator } from './predictive.js';
 import type { FitBatch, FitSetup } from './types.js';
 
 /** Display cells per input of the two-input panels (finer cells are grouped). */
 export const PAIR_CELLS = 64;
+
+/** Weights below this share of the heaviest row's are left out of histograms, moments and pairs. */
+const NEGLIGIBLE = 1e-16;
 
 /** Statuses left out by default: their outputs were not computed. */
 export const DEFAULT_LEAVE_OUT: readonly string[] = ['failed', 'onset_beyond_range'];
@@ -48,8 +52,8 @@ export interface FitSums {
 /** Per-row arrays, grown by doubling. */
 interface RowStore {
   ll: Float64Array;
-  ids: Float64Array;
-  outputs: Record<string, Float64Array>;
+  /** null while the ids are firstId, firstId + 1, ... (the usual case: no per-row storage) */
+  ids: Float64Array | null;
 }
 
 /**
@@ -67,8 +71,10 @@ export class FitAccumulator {
   readonly statuses: readonly string[];
   /** 1 for status codes that are left out */
   private readonly leave: Uint8Array;
-  /** output names kept per row (observed first, then predicted) */
+  /** outputs whose predictive is accumulated (observed first, then predicted) */
   readonly stored: readonly string[];
+  /** the predictive of each stored output */
+  readonly predictive: readonly PredictiveAccumulator[];
   readonly sums: FitSums;
   /** left-out counts: [code] for left-out statuses, [statuses + code * K + k] for a null output */
   private readonly leftOut: Float64Array;
@@ -81,6 +87,8 @@ export class FitAccumulator {
   bestOutputs: Record<string, number> = {};
   private store: RowStore;
   private scratchIdx: Int32Array[] = [];
+  /** the weights of the current batch's rows */
+  private weights = new Float64Array(0);
 
   constructor(setup: FitSetup) {
     if (setup.observations.length === 0) throw new InputError('fit: no observation given; observe at least one output, e.g. crust_km=7.1+-0.8');
@@ -102,7 +110,8 @@ export class FitAccumulator {
     this.leftOut = new Float64Array(this.statuses.length * (1 + obs.length));
     this.usedByCode = new Float64Array(this.statuses.length);
     this.sums = createSums(setup);
-    this.store = { ll: new Float64Array(0), ids: new Float64Array(0), outputs: Object.fromEntries(this.stored.map((n) => [n, new Float64Array(0)])) };
+    this.predictive = this.stored.map((n) => new PredictiveAccumulator(n));
+    this.store = { ll: new Float64Array(0), ids: null };
     this.grow(Math.max(1024, setup.expectedRows ?? 0));
   }
 
@@ -117,8 +126,7 @@ export class FitAccumulator {
     };
     this.store = {
       ll: extend(this.store.ll),
-      ids: extend(this.store.ids),
-      outputs: Object.fromEntries(this.stored.map((n) => [n, extend(this.store.outputs[n])])),
+      ids: this.store.ids === null ? null : extend(this.store.ids),
     };
   }
 
@@ -142,47 +150,24 @@ export class FitAccumulator {
     const inv = this.obsInvVar;
     const leave = this.leave;
     const nStatus = this.statuses.length;
-    let batchMax = -Infinity;
-    let within = 0;
 
     // pass 1: the log-likelihood of every row (NaN = left out, counted by reason)
     for (let r = 0; r < n; r++) {
       const code = status === undefined ? 0 : status[r];
       if (code >= nStatus) throw new InputError(`fit: status code ${code} at row ${pos + r} is not one of the ${nStatus} statuses`);
-      if (leave[code] === 1) {
-        this.leftOut[code] += 1;
-        ll[pos + r] = NaN;
-        continue;
-      }
-      let chi2 = 0;
-      let worst = 0;
-      let nullAt = -1;
-      for (let k = 0; k < K; k++) {
-        const d = outs[k][r] - values[k];
-        if (d - d !== 0) {
-          nullAt = k;
-          break;
-        }
-        const z2 = d * d * inv[k];
-        chi2 += z2;
-        if (z2 > worst) worst = z2;
-      }
-      if (nullAt >= 0) {
-        this.leftOut[nStatus + code * K + nullAt] += 1;
-        ll[pos + r] = NaN;
-        continue;
-      }
-      const l = this.llConstant - 0.5 * chi2;
-      ll[pos + r] = l;
-      this.usedByCode[code] += 1;
-      if (worst <= 9) within++;
-      if (l > batchMax) batchMax = l;
     }
+    const pass = logLikelihoods(outs, values, inv, this.llConstant, status, leave, n, ll, pos, this.leftOut, this.usedByCode, nStatus);
+    const batchMax = pass.max;
+    const within = pass.within;
     this.within3Sd += within;
 
     const s = this.sums;
     if (batchMax > s.maxLl) {
-      if (s.maxLl > -Infinity) rescale(s, Math.exp(s.maxLl - batchMax));
+      if (s.maxLl > -Infinity) {
+        const f = Math.exp(s.maxLl - batchMax);
+        rescale(s, f);
+        for (const p of this.predictive) p.rescale(f);
+      }
       s.maxLl = batchMax;
     }
     let newBest = -1;
@@ -202,15 +187,12 @@ export class FitAccumulator {
     // pass 2: cells of every input, then the weighted sums
     const idx = this.cellIndices(ins, n);
     accumulatePrior(s, ins, idx, n);
-    accumulatePosterior(s, ins, idx, ll, pos, n);
+    if (this.weights.length < n) this.weights = new Float64Array(n);
+    accumulatePosterior(s, ins, idx, ll, pos, n, this.weights);
 
-    for (let k = 0; k < this.stored.length; k++) this.store.outputs[this.stored[k]].set(kept[k].subarray(0, n), pos);
-    if (batch.ids !== undefined) {
-      if (batch.ids.length < n) throw new InputError(`fit: the ids hold ${batch.ids.length} rows, the batch ${n}`);
-      this.store.ids.set(batch.ids.subarray(0, n), pos);
-    } else {
-      for (let r = 0; r < n; r++) this.store.ids[pos + r] = pos + r;
-    }
+    const batchLl = ll.subarray(pos, pos + n);
+    for (let k = 0; k < this.stored.length; k++) this.predictive[k].add(kept[k], this.weights, batchLl, n);
+    this.keepIds(batch.ids, pos, n);
     this.rows += n;
     return newBest;
   }
@@ -219,12 +201,29 @@ export class FitAccumulator {
     if (this.scratchIdx.length === 0 || this.scratchIdx[0].length < n) {
       this.scratchIdx = ins.map(() => new Int32Array(Math.max(n, 4096)));
     }
-    ins.forEach((x, a) => {
-      const cells = this.sums.cells[a];
-      const out = this.scratchIdx[a];
-      for (let r = 0; r < n; r++) out[r] = cells.index(x[r]);
-    });
+    ins.forEach((x, a) => this.sums.cells[a].indexAll(x, n, this.scratchIdx[a]));
     return this.scratchIdx;
+  }
+
+  /** id of the first row; row p has id firstId + p while the ids are contiguous */
+  firstId = 0;
+
+  /** Keep the ids of rows [pos, pos + n): nothing while they continue firstId + p, else per row. */
+  private keepIds(ids: Float64Array | undefined, pos: number, n: number): void {
+    if (ids !== undefined && ids.length < n) throw new InputError(`fit: the ids hold ${ids.length} rows, the batch ${n}`);
+    if (this.store.ids === null) {
+      if (ids === undefined) return;
+      if (pos === 0 && n > 0) this.firstId = ids[0];
+      const base = this.firstId + pos;
+      let r = 0;
+      while (r < n && ids[r] === base + r) r++;
+      if (r === n) return;
+      const all = new Float64Array(this.store.ll.length);
+      for (let p = 0; p < pos; p++) all[p] = this.firstId + p;
+      this.store.ids = all;
+    }
+    if (ids !== undefined) this.store.ids.set(ids.subarray(0, n), pos);
+    else for (let r = 0; r < n; r++) this.store.ids[pos + r] = this.firstId + pos + r;
   }
 
   /** Left-out rows by reason: a status, or "<status>: <output> is null". */
@@ -242,14 +241,92 @@ export class FitAccumulator {
   }
 
   /** The per-row arrays, trimmed to the rows seen (views, not copies). */
-  rowArrays(): { readonly ll: Float64Array; readonly ids: Float64Array; readonly outputs: Readonly<Record<string, Float64Array>> } {
+  rowArrays(): { readonly ll: Float64Array; readonly ids: Float64Array | null } {
     const n = this.rows;
     return {
       ll: this.store.ll.subarray(0, n),
-      ids: this.store.ids.subarray(0, n),
-      outputs: Object.fromEntries(this.stored.map((name) => [name, this.store.outputs[name].subarray(0, n)])),
+      ids: this.store.ids === null ? null : this.store.ids.subarray(0, n),
     };
   }
+}
+
+/**
+ * Log-likelihood of rows [0, n) into ll[pos ..] (NaN for left-out rows, counted in leftOut:
+ * [code] for a left-out status, [nStatus + code * K + k] for a null observed output k).
+ * Returns the largest log-likelihood and the rows within 3 sd of every observation.
+ */
+function logLikelihoods(
+  outs: readonly Float64Array[],
+  values: Float64Array,
+  inv: Float64Array,
+  c0: number,
+  status: Uint8Array | undefined,
+  leave: Uint8Array,
+  n: number,
+  ll: Float64Array,
+  pos: number,
+  leftOut: Float64Array,
+  used: Float64Array,
+  nStatus: number,
+): { max: number; within: number } {
+  const K = outs.length;
+  let max = -Infinity;
+  let within = 0;
+  // one observation is the common case: a loop without the inner loop
+  if (K === 1) {
+    const y = outs[0];
+    const v = values[0];
+    const iv = inv[0];
+    for (let r = 0; r < n; r++) {
+      const code = status === undefined ? 0 : status[r];
+      const d = y[r] - v;
+      if (leave[code] === 1 || d - d !== 0) {
+        if (leave[code] === 1) leftOut[code] += 1;
+        else leftOut[nStatus + code] += 1;
+        ll[pos + r] = NaN;
+        continue;
+      }
+      const z2 = d * d * iv;
+      const l = c0 - 0.5 * z2;
+      ll[pos + r] = l;
+      used[code] += 1;
+      if (z2 <= 9) within++;
+      if (l > max) max = l;
+    }
+    return { max, within };
+  }
+  for (let r = 0; r < n; r++) {
+    const code = status === undefined ? 0 : status[r];
+    if (leave[code] === 1) {
+      leftOut[code] += 1;
+      ll[pos + r] = NaN;
+      continue;
+    }
+    let chi2 = 0;
+    let worst = 0;
+    let nullAt = -1;
+    for (let k = 0; k < K; k++) {
+      const d = outs[k][r] - values[k];
+      if (d - d !== 0) {
+        nullAt = k;
+        break;
+      }
+      const z2 = d * d * inv[k];
+      chi2 += z2;
+      if (z2 > worst) worst = z2;
+    }
+    if (nullAt >= 0) {
+      leftOut[nStatus + code * K + nullAt] += 1;
+      ll[pos + r] = NaN;
+      continue;
+    }
+    const l = c0 - 0.5 * chi2;
+    ll[pos + r] = l;
+    used[code] += 1;
+    if (worst <= 9) within++;
+    if (l > max) max = l;
+  }
+  return { max, within };
 }
 
 function columnOf(cols: Readonly<Record<string, Float64Array>>, name: string, n: number, what: string): Float64Array {
@@ -326,19 +403,21 @@ function accumulatePrior(s: FitSums, ins: readonly Float64Array[], idx: readonly
   }
 }
 
-function accumulatePosterior(s: FitSums, ins: readonly Float64Array[], idx: readonly Int32Array[], ll: Float64Array, pos: number, n: number): void {
+function accumulatePosterior(s: FitSums, ins: readonly Float64Array[], idx: readonly Int32Array[], ll: Float64Array, pos: number, n: number, w: Float64Array): void {
   const maxLl = s.maxLl;
   const k = ins.length;
   let s1 = 0;
   let s2 = 0;
-  const w = new Float64Array(n);
   for (let r = 0; r < n; r++) {
     const l = ll[pos + r];
+    w[r] = 0;
     if (l !== l) continue;
     const v = Math.exp(l - maxLl);
-    w[r] = v;
     s1 += v;
     s2 += v * v;
+    // rows this far below the heaviest one cannot move a sum (n x 1e-16 relative at most)
+    if (v < NEGLIGIBLE) continue;
+    w[r] = v;
   }
   s.s1 += s1;
   s.s2 += s2;

@@ -25,6 +25,8 @@ export interface Cells {
   readonly edgesT: Float64Array;
   /** the cell of value x (clamped to the range); -1 for NaN */
   index(x: number): number;
+  /** index() of x[0 .. n) into out (one tight loop) */
+  indexAll(x: Float64Array, n: number, out: Int32Array): void;
 }
 
 function toT(x: number, log: boolean): number {
@@ -55,6 +57,17 @@ export function equalCells(lo: number, hi: number, count: number, log: boolean):
       const i = Math.floor(((log ? Math.log(x) : x) - t0) * inv);
       return i < 0 ? 0 : i > last ? last : i;
     },
+    indexAll(x: Float64Array, n: number, out: Int32Array): void {
+      for (let r = 0; r < n; r++) {
+        const v = x[r];
+        if (v !== v) {
+          out[r] = -1;
+          continue;
+        }
+        const i = Math.floor(((log ? Math.log(v) : v) - t0) * inv);
+        out[r] = i < 0 ? 0 : i > last ? last : i;
+      }
+    },
   };
 }
 
@@ -83,12 +96,26 @@ export function gridCells(values: readonly number[], log: boolean): Cells {
         const i = Math.round(((log ? Math.log(x) : x) - t0) * inv);
         return i < 0 ? 0 : i > last ? last : i;
       },
+      indexAll(x: Float64Array, n: number, out: Int32Array): void {
+        for (let r = 0; r < n; r++) {
+          const v = x[r];
+          if (v !== v) {
+            out[r] = -1;
+            continue;
+          }
+          const i = Math.round(((log ? Math.log(v) : v) - t0) * inv);
+          out[r] = i < 0 ? 0 : i > last ? last : i;
+        }
+      },
     };
   }
   return {
     log,
     count: m,
     edgesT,
+    indexAll(x: Float64Array, n: number, out: Int32Array): void {
+      for (let r = 0; r < n; r++) out[r] = this.index(x[r]);
+    },
     index(x: number): number {
       if (x !== x) return -1;
       // the last edge at or below x, by bisection over the interior edges

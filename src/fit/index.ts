@@ -2,7 +2,8 @@
  * Fitting observations to sweep tables (model-agnostic: plain input/output columns and the design).
  */
 export { FitAccumulator, DEFAULT_LEAVE_OUT, PAIR_CELLS } from './accumulate.js';
-export { finishFit, summaryOf, SUMMARY_LEVELS, PREDICT_CELLS } from './fit-result.js';
+export { finishFit, summaryOf, weightsOf, SUMMARY_LEVELS } from './fit-result.js';
+export { PredictiveAccumulator, PREDICTIVE_CELLS, PREDICT_PLOT_CELLS } from './predictive.js';
 export { fitTable } from './fit-table.js';
 export { axisCells, cellQuantile, equalCells, gridCells, SAMPLED_CELLS, type Cells } from './cells.js';
 export { describePrior } from './prior.js';

@@ -154,10 +154,17 @@ export interface FitResult {
   readonly pairs: readonly FitPairDensity[];
   /** per observed or predicted output: prior and posterior predictive mass (48 cells) */
   readonly predictive: readonly FitHistogram[];
-  /** normalised weight per row (sums to 1 over used rows); NaN for left-out rows */
+  /**
+   * normalised weight per row (sums to 1 over used rows); NaN for left-out rows. Computed on first
+   * use (8 bytes per row): exp(logLikelihood[r] - logNormaliser).
+   */
   readonly weights: Float64Array;
+  /** ln of the sum of the likelihoods of the used rows: weight = exp(log_likelihood - logNormaliser) */
+  readonly logNormaliser: number;
   /** Gaussian log-likelihood per row (natural log, constants included); NaN for left-out rows */
   readonly logLikelihood: Float64Array;
-  /** scenario id per row */
-  readonly ids: Float64Array;
+  /** scenario id per row; null when the ids run firstId, firstId + 1, ... (see rowId) */
+  readonly ids: Float64Array | null;
+  /** the id of the first row */
+  readonly firstId: number;
 }

@@ -10,6 +10,7 @@ import { InputError } from '../errors.js';
 import { checkObservations, FitAccumulator, finishFit, type FitPrior, type FitResult, type Observation } from '../fit/index.js';
 import { readResultsMeta, type ResultsTableMeta } from '../io/arrow-schema.js';
 import { formatFromExtension } from '../io/output-format.js';
+import { canScanIpcFiles, isIpcFile, scanIpcFile } from '../io/ipc-scan.js';
 import { readTableBatches, readTableSchema } from '../io/table-reader.js';
 import { INPUT_NAMES } from '../physics/fields.js';
 import { COLUMN_STATUSES } from '../physics/types.js';
@@ -86,8 +87,20 @@ function floatColumn(vector: arrow.Vector | null, n: number, scratch: Float64Arr
   let at = 0;
   for (const data of vector.data) {
     if (data.values instanceof Float64Array) {
-      const values = data.values;
-      for (let i = 0; i < data.length; i++) scratch[at + i] = data.getValid(i) ? values[data.offset + i] : NaN;
+      // copy the values, then mark the nulls from the validity bitmap a byte at a time
+      scratch.set(data.values.subarray(data.offset, data.offset + data.length), at);
+      const bitmap = data.nullBitmap;
+      if (data.nullCount > 0 && bitmap !== undefined && bitmap.length > 0) {
+        for (let i = 0; i < data.length; i++) {
+          const bit = data.offset + i;
+          const byte = bitmap[bit >> 3];
+          if (byte === 0xff && (bit & 7) === 0 && i + 8 <= data.length) {
+            i += 7;
+            continue;
+          }
+          if (((byte >> (bit & 7)) & 1) === 0) scratch[at + i] = NaN;
+        }
+      }
     } else if (data.values instanceof BigInt64Array && data.nullCount === 0) {
       // int64 ids through their 32-bit words (little-endian), no BigInt per row
       const words = new Int32Array(data.values.buffer, data.values.byteOffset + 8 * data.offset, 2 * data.length);
@@ -182,7 +195,10 @@ export async function fitResultsFile(file: string, options: FitFileOptions): Pro
   };
   let status = new Uint8Array(65_536);
   let bestRow: Record<string, unknown> = {};
-  for await (const batch of readTableBatches(file)) {
+  // Arrow IPC files are scanned with reused buffers (every value of a batch is used or copied
+  // before the next one is read); other formats through the general reader
+  const batches = isIpcFile(file) && canScanIpcFiles() ? scanIpcFile(file) : readTableBatches(file);
+  for await (const batch of batches) {
     const n = batch.numRows;
     if (status.length < n) status = new Uint8Array(n);
     const col = (name: string): Float64Array => floatColumn(batch.getChild(name), n, buffer(name, n));

@@ -7,7 +7,7 @@ import fs from 'node:fs';
 import path from 'node:path';
 import { stringify } from 'yaml';
 import { InputError } from '../errors.js';
-import { refineAxes, refinedSweepData, type InputLimits, type RefinedAxis } from '../fit/index.js';
+import { refineAxes, refinedSweepData, weightsOf, type InputLimits, type RefinedAxis } from '../fit/index.js';
 import { floatData, int64Data } from '../io/arrow-batch.js';
 import { IpcFileSink } from '../io/ipc-file.js';
 import { writeFileAtomic } from '../io/ipc-file.js';
@@ -69,10 +69,16 @@ export async function writeFitTable(r: FitFileResult, outPath: string): Promise<
   const schema = fitTableSchema(r);
   const sink = new IpcFileSink(outPath, `${outPath}.tmp-${process.pid}`, schema);
   try {
-    const { ids, logLikelihood, weights } = r.fit;
-    for (let s = 0; s < ids.length; s += FIT_BATCH_ROWS) {
-      const e = Math.min(ids.length, s + FIT_BATCH_ROWS);
-      const children = [int64Data(ids.subarray(s, e)), floatData(logLikelihood.slice(s, e)), floatData(weights.slice(s, e))];
+    const { ids, firstId, logLikelihood, logNormaliser } = r.fit;
+    const rows = logLikelihood.length;
+    const run = new Float64Array(Math.min(rows, FIT_BATCH_ROWS));
+    const weights = new Float64Array(Math.min(rows, FIT_BATCH_ROWS));
+    for (let s = 0; s < rows; s += FIT_BATCH_ROWS) {
+      const e = Math.min(rows, s + FIT_BATCH_ROWS);
+      if (ids === null) for (let i = s; i < e; i++) run[i - s] = firstId + i;
+      const idData = int64Data(ids === null ? run.subarray(0, e - s) : ids.subarray(s, e));
+      const ll = logLikelihood.subarray(s, e);
+      const children = [idData, floatData(ll), floatData(weightsOf(ll, logNormaliser, weights.subarray(0, e - s)))];
       await sink.write(new arrow.RecordBatch(schema, arrow.makeData({ type: new arrow.Struct(schema.fields), length: e - s, nullCount: 0, children })));
     }
     await sink.publish();
