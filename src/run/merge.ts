@@ -17,6 +17,7 @@ import { profilesSchema } from '../io/profile-table.js';
 import { readTableBatches, readTableSchema } from '../io/table-reader.js';
 import { openTableSink, type TableSinkOptions } from '../io/table-sink.js';
 import { countStatuses } from './publication.js';
+import { shardRange } from '../plan/shards.js';
 import { COLUMN_STATUSES } from '../physics/types.js';
 
 export interface MergeSummary {
@@ -71,13 +72,29 @@ export async function checkShards(files: readonly string[]): Promise<ShardInfo[]
   infos.sort((a, b) => a.meta.rowStart - b.meta.rowStart || a.meta.rowEnd - b.meta.rowEnd);
   let next = 0;
   for (const s of infos) {
-    if (s.meta.rowStart > next) problems.push(`merge: rows ${next}-${s.meta.rowStart} are missing (no shard covers them)`);
+    if (s.meta.rowStart > next) problems.push(`merge: rows ${next}-${s.meta.rowStart} are missing (${missingShards(infos, next, s.meta.rowStart)})`);
     if (s.meta.rowStart < next) problems.push(`merge: rows ${s.meta.rowStart}-${Math.min(next, s.meta.rowEnd)} are covered twice (${s.file} overlaps an earlier shard)`);
     next = Math.max(next, s.meta.rowEnd);
   }
-  if (next < first.pointCount) problems.push(`merge: rows ${next}-${first.pointCount} are missing (no shard covers them)`);
+  if (next < first.pointCount) problems.push(`merge: rows ${next}-${first.pointCount} are missing (${missingShards(infos, next, first.pointCount)})`);
   if (problems.length > 0) throw new InputError(problems);
   return infos;
+}
+
+/** "shard 3 of 4 is missing" when the shards were cut k/n alike, else "no shard covers them". */
+function missingShards(infos: readonly ShardInfo[], start: number, end: number): string {
+  const ns = new Set(infos.map((s) => /^\d+\/(\d+)$/.exec(s.meta.shard)?.[1]));
+  const n = Number([...ns][0]);
+  if (ns.size !== 1 || !Number.isSafeInteger(n)) return 'no shard covers them';
+  const count = infos[0].meta.pointCount;
+  const ks: number[] = [];
+  for (let k = 1; k <= n; k++) {
+    const r = shardRange(count, k, n);
+    if (r.start < end && r.end > start && r.end > r.start) ks.push(k);
+  }
+  if (ks.length === 1) return `shard ${ks[0]} of ${n} is missing`;
+  const shown = ks.length > 12 ? `${ks.slice(0, 12).join(', ')} and ${ks.length - 12} more` : ks.join(', ');
+  return `shards ${shown} of ${n} are missing`;
 }
 
 /** The profile grid shared by every shard's profile table; null when no shard has one. */

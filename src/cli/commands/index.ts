@@ -2,6 +2,7 @@ import type { Command } from 'commander';
 import { registerDemo } from './demo.js';
 import { registerRun } from './run.js';
 import { registerMerge } from './merge.js';
+import { registerSubmit } from './submit.js';
 import { registerPlan } from './plan.js';
 import { registerColumn } from './column.js';
 import { registerSensitivity } from './sensitivity.js';
@@ -16,6 +17,7 @@ export function registerCommands(program: Command): void {
   registerPlan(program);
   registerRun(program);
   registerMerge(program);
+  registerSubmit(program);
   registerColumn(program);
   registerSensitivity(program);
   registerFit(program);

@@ -2,7 +2,7 @@ import type { Command } from 'commander';
 import { InputError } from '../../errors.js';
 import { OUTPUT_FORMATS, parseOutputFormat, type OutputFormat } from '../../io/output-format.js';
 import { formatProfileGrid, parseProfileGrid, type ProfileGrid } from '../../run/profile-grid.js';
-import { loadSweepFile } from '../../spec/index.js';
+import { loadSweepFile, sweepHash } from '../../spec/index.js';
 import { parseShardArg } from '../../plan/index.js';
 import { runSweep, type RunSummary } from '../../run/run-sweep.js';
 import { createProgress } from '../../run/progress.js';
@@ -24,6 +24,8 @@ export interface RunCommandOptions {
   readonly format?: OutputFormat;
   /** write the profile table sampled on this grid */
   readonly profiles?: ProfileGrid;
+  /** refuse unless the sweep's hash is this one (set by the job scripts of `submit`) */
+  readonly sweepHash?: string;
 }
 
 /** Exit code of an interrupted run (128 + SIGINT), the shell convention. */
@@ -35,6 +37,7 @@ export const EXIT_INTERRUPTED = 130;
  */
 export async function executeRun(sweepPath: string, o: RunCommandOptions): Promise<RunSummary> {
   const spec = await loadSweepFile(sweepPath);
+  if (o.sweepHash !== undefined) checkSweepHash(sweepPath, sweepHash(spec), o.sweepHash);
   const shard = o.shard === undefined ? undefined : parseShardArg(o.shard, process.env);
   const plan = planSweep(spec);
   const range = shard ? shardRange(plan.count, shard.k, shard.n) : { start: 0, end: plan.count };
@@ -72,6 +75,15 @@ export async function executeRun(sweepPath: string, o: RunCommandOptions): Promi
   }
 }
 
+/** Refuse a sweep whose hash is not the one recorded when its jobs were submitted. */
+function checkSweepHash(sweepPath: string, actual: string, expected: string): void {
+  if (actual === expected.trim().toLowerCase()) return;
+  throw new InputError(
+    `--sweep-hash: ${sweepPath} is sweep ${actual.slice(0, 12)}, not the ${expected.slice(0, 12)} recorded when it was submitted: ` +
+      'the copy was edited after submission, so this task would mix two sweeps; submit the sweep again',
+  );
+}
+
 /** Print a finished or interrupted run and set the exit code. */
 export async function reportRun(summary: RunSummary, o: RunCommandOptions, resumeHint: string): Promise<void> {
   if (summary.interrupted) {
@@ -99,6 +111,7 @@ export function registerRun(program: Command): void {
     .option('--resume', 'finish an interrupted run of the same sweep')
     .option('--force', 'replace an existing output and discard a partial run')
     .option('--shard <k/n>', 'compute only shard k of n (1-based), or "auto" from a batch scheduler array job')
+    .option('--sweep-hash <sha256>', 'refuse to run unless the sweep\'s hash (see meltsweep plan) is this one; the job scripts of submit use it')
     .option('-q, --quiet', 'no progress output')
     .option('--no-summary', 'do not compute and print the sensitivity summary')
     .option('--commit-seconds <s>', 'commit finished rows to disk at least this often (default 3)', (v: string) =>
