@@ -4,7 +4,8 @@
  * the warnings with the next step to take.
  */
 import { InputError } from '../errors.js';
-import type { FitAccumulator, FitSums } from './accumulate.js';
+import type { FitAccumulator } from './accumulate.js';
+import type { FitSums } from './weighted-sums.js';
 import { cellQuantile, fromT } from './cells.js';
 import { describePrior } from './prior.js';
 import type { FitBestRow, FitHistogram, FitPairDensity, FitResult, FitSummary, FitWarning } from './types.js';

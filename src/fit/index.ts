@@ -1,7 +1,8 @@
 /**
  * Fitting observations to sweep tables (model-agnostic: plain input/output columns and the design).
  */
-export { FitAccumulator, DEFAULT_LEAVE_OUT, PAIR_CELLS } from './accumulate.js';
+export { FitAccumulator, DEFAULT_LEAVE_OUT } from './accumulate.js';
+export { PAIR_CELLS } from './weighted-sums.js';
 export { finishFit, summaryOf, weightsOf, SUMMARY_LEVELS } from './fit-result.js';
 export { PredictiveAccumulator, PREDICTIVE_CELLS, PREDICT_PLOT_CELLS } from './predictive.js';
 export { fitTable } from './fit-table.js';

@@ -3,11 +3,8 @@
  * says so in one sentence, naming each swept input and how the design spreads it.
  */
 import type { FitPrior } from './types.js';
+import { formatFitNumber as fmt } from './format.js';
 
-/** A number with at most 6 significant digits. */
-function fmt(v: number): string {
-  return String(Number(v.toPrecision(6)));
-}
 
 /**
  * One sentence stating the prior, e.g. "the sweep's own design: grid of 9 x 5 = 45 points, each

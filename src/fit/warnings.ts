@@ -2,8 +2,9 @@
  * When a fit should not be trusted as it stands, and what to do next: too few effective rows, a
  * posterior cut off by the edge of the swept range, or no row that fits the observations.
  */
-import type { FitSums } from './accumulate.js';
+import type { FitSums } from './weighted-sums.js';
 import type { FitAxis, FitBestRow, FitWarning, Observation } from './types.js';
+import { formatFitNumber as fmt } from './format.js';
 
 /** Below this effective sample size the posterior rests on too few rows. */
 export const MIN_ESS = 50;
@@ -37,9 +38,6 @@ export interface WarningInputs {
   readonly axes: readonly FitAxis[];
 }
 
-function fmt(v: number): string {
-  return String(Number(v.toPrecision(4)));
-}
 
 /**
  * The warnings of a fit, in order: no row within 3 sd, low effective sample size, then an edge

@@ -7,6 +7,7 @@
 import type { FitHistogram, FitPairDensity, FitSummary } from '../fit/types.js';
 import type { PlotSpec } from './render.js';
 import { CATEGORICAL, HEATMAP_SCHEME, INK } from './theme.js';
+import { formatFitNumber as fmt } from '../fit/format.js';
 
 const POSTERIOR = CATEGORICAL[0];
 const OBSERVED = CATEGORICAL[1];
@@ -97,12 +98,6 @@ export function marginalSpec(h: FitHistogram, summary: FitSummary, unit: string,
   return spec as unknown as PlotSpec;
 }
 
-function fmt(v: number): string {
-  if (!Number.isFinite(v)) return String(v);
-  const a = Math.abs(v);
-  if (a !== 0 && (a >= 1e5 || a < 1e-3)) return v.toExponential(2);
-  return String(Number(v.toPrecision(4)));
-}
 
 /**
  * The matrix of two-input posterior densities: the row of input j holds one panel per earlier
