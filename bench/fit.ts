@@ -16,7 +16,7 @@ import { FitAccumulator, finishFit, type FitSetup } from '../src/fit/index.js';
 import { chunkToRecordBatch } from '../src/io/arrow-batch.js';
 import { makeStatusDictionary, resultsSchema } from '../src/io/arrow-schema.js';
 import { IpcFileSink } from '../src/io/ipc-file.js';
-import { RESULT_NUMERIC_NAMES } from '../src/physics/fields.js';
+import { INPUT_FIELDS, INPUT_NAMES, RESULT_NUMERIC_FIELDS, RESULT_NUMERIC_NAMES } from '../src/physics/fields.js';
 import { DEFAULT_PARAMS } from '../src/physics/params.js';
 import { planSweep } from '../src/plan/index.js';
 import type { ChunkResult } from '../src/run/compute-chunk.js';
@@ -31,13 +31,22 @@ const OBSERVATIONS = [
   { output: 'f_max', value: 0.15, sd: 0.02 },
 ];
 
+/**
+ * A point batch readable both as named columns (tp_c, ...) and as `inputs` by name: the same
+ * arrays under both, so the bench fills and writes them whichever shape the planner uses.
+ */
+function pointBatch(n: number) {
+  const inputs = Object.fromEntries(INPUT_NAMES.map((name) => [name, new Float64Array(n)])) as Record<string, Float64Array>;
+  return { ...inputs, inputs, block: null, tp_c: inputs.tp_c, water_ppm: inputs.water_ppm, lid_km: inputs.lid_km };
+}
+
 /** Synthetic outputs shaped like a melting sweep (smooth in the inputs, a few failed rows). */
 function syntheticChunk(start: number, end: number, plan: ReturnType<typeof planSweep>): ChunkResult {
   const n = end - start;
   const f = (): Float64Array => new Float64Array(n);
-  const points = { tp_c: f(), water_ppm: f(), lid_km: f(), upwelling_mm_yr: f(), block: null };
-  plan.fill(start, end, points);
-  const numeric = Object.fromEntries(RESULT_NUMERIC_NAMES.map((name) => [name, f()])) as ChunkResult['numeric'];
+  const points = pointBatch(n);
+  plan.fill(start, end, points as unknown as Parameters<typeof plan.fill>[2]);
+  const numeric = Object.fromEntries(RESULT_NUMERIC_NAMES.map((name) => [name, f()])) as unknown as ChunkResult['numeric'];
   const status = new Uint8Array(n);
   for (let i = 0; i < n; i++) {
     const tp = points.tp_c[i];
@@ -52,14 +61,18 @@ function syntheticChunk(start: number, end: number, plan: ReturnType<typeof plan
       numeric.f_max[i] = NaN;
     }
   }
-  return { start, end, points, status, numeric, reasons: [], computeMs: 0 };
+  return { start, end, points: points as unknown as ChunkResult['points'], status, numeric, reasons: [], computeMs: 0 };
 }
 
 /** Write a synthetic results file of exactly `rows` rows (a 200 x 200 x rows/40,000 grid). */
 export async function writeSyntheticResults(file: string, rows: number): Promise<void> {
   const spec = bigSweepSpec(rows);
   const plan = planSweep(spec);
-  const schema = resultsSchema({ sweepJson: JSON.stringify(spec), sweepHash: sweepHash(spec), toolVersion: 'bench', params: DEFAULT_PARAMS, pointCount: plan.count, rowStart: 0, rowEnd: plan.count, shard: '1/1', blockLabels: null });
+  const meta = {
+    process: 'decompression', inputs: INPUT_FIELDS, results: RESULT_NUMERIC_FIELDS,
+    sweepJson: JSON.stringify(spec), sweepHash: sweepHash(spec), toolVersion: 'bench', params: DEFAULT_PARAMS, pointCount: plan.count, rowStart: 0, rowEnd: plan.count, shard: '1/1', blockLabels: null,
+  };
+  const schema = resultsSchema(meta as Parameters<typeof resultsSchema>[0]);
   const dictionary = makeStatusDictionary();
   const sink = new IpcFileSink(file, `${file}.tmp`, schema);
   for (let s = 0; s < plan.count; s += 65_536) await sink.write(chunkToRecordBatch(syntheticChunk(s, Math.min(plan.count, s + 65_536), plan), schema, dictionary));
@@ -73,7 +86,8 @@ export async function benchFitCore(rows = 2_000_000, repetitions = 3): Promise<B
   const batches: { inputs: Record<string, Float64Array>; outputs: Record<string, Float64Array>; status: Uint8Array; rows: number }[] = [];
   for (let s = 0; s < plan.count; s += 65_536) {
     const c = syntheticChunk(s, Math.min(plan.count, s + 65_536), plan);
-    batches.push({ rows: c.end - c.start, inputs: { tp_c: c.points.tp_c, water_ppm: c.points.water_ppm, lid_km: c.points.lid_km }, outputs: { crust_km: c.numeric.crust_km, f_max: c.numeric.f_max, onset_depth_km: c.numeric.onset_depth_km }, status: c.status });
+    const inputs = (c.points as unknown as { inputs: Record<string, Float64Array> }).inputs;
+    batches.push({ rows: c.end - c.start, inputs, outputs: { crust_km: c.numeric.crust_km, f_max: c.numeric.f_max, onset_depth_km: c.numeric.onset_depth_km }, status: c.status });
   }
   const setup: FitSetup = { observations: OBSERVATIONS, prior: priorOf(spec), predict: ['onset_depth_km'], statuses: ['ok', 'no_melt', 'onset_beyond_range', 'failed'], expectedRows: plan.count };
   const { cpu } = await measureRates(
