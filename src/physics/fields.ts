@@ -28,14 +28,14 @@ export const INPUT_NAMES: readonly InputName[] = INPUT_FIELDS.map((f) => f.name)
 export const RESULT_NUMERIC_FIELDS = [
   { name: 'onset_p_gpa', unit: 'GPa', kind: 'float64', nullable: true, description: 'pressure where melting starts' },
   { name: 'onset_depth_km', unit: 'km', kind: 'float64', nullable: true, description: 'depth where melting starts (z = P / (rho_s g))' },
-  { name: 'top_p_gpa', unit: 'GPa', kind: 'float64', nullable: true, description: 'pressure where melting stops (base of the lid, or the surface)' },
-  { name: 'top_depth_km', unit: 'km', kind: 'float64', nullable: true, description: 'depth where melting stops' },
+  { name: 'top_p_gpa', unit: 'GPa', kind: 'float64', nullable: true, description: 'pressure where melting stops: the shallowest point where F still increases (the lid base, or the surface, for isentropic columns; deeper where a conductive lid cools the column)' },
+  { name: 'top_depth_km', unit: 'km', kind: 'float64', nullable: true, description: 'depth where melting stops (see top_p_gpa)' },
   { name: 'f_max', unit: 'fraction', kind: 'float64', nullable: true, description: 'largest melt fraction in the column (mass fraction, 0-1)' },
   { name: 'f_mean', unit: 'fraction', kind: 'float64', nullable: true, description: 'mean melt fraction over the melting interval, integral F dP / (P_onset - P_top)' },
   { name: 'crust_km', unit: 'km', kind: 'float64', nullable: true, description: 'crust thickness of the passive melting regime, integral F dP / (rho_c g); 0 for no_melt, null for failed' },
-  { name: 't_top_c', unit: 'degC', kind: 'float64', nullable: true, description: 'temperature at the top of the melting column' },
+  { name: 't_top_c', unit: 'degC', kind: 'float64', nullable: true, description: 'temperature where melting stops (at top_p_gpa)' },
   { name: 'h2o_melt_wt_pct', unit: 'wt%', kind: 'float64', nullable: true, description: 'water in the pooled melt' },
-  { name: 'productivity_pct_per_gpa', unit: '%/GPa', kind: 'float64', nullable: true, description: 'mean isentropic productivity -dF/dP x 100 over the column' },
+  { name: 'productivity_pct_per_gpa', unit: '%/GPa', kind: 'float64', nullable: true, description: 'mean productivity -dF/dP x 100 over the melting interval, 100 F_top / (P_onset - P_top), for every thermal model' },
   { name: 'melt_flux_kg_m2_yr', unit: 'kg/m2/yr', kind: 'float64', nullable: true, description: 'melt flux of an upwelling column, rho_s w F_max (null without an upwelling rate)' },
   { name: 'surface_heat_flow_mw_m2', unit: 'mW/m2', kind: 'float64', nullable: true, description: 'conductive heat flow through the lid (conductive runs only)' },
 ] as const satisfies readonly FieldInfo[];

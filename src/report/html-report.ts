@@ -94,7 +94,7 @@ export async function buildHtmlReport(file: string, options: ReportOptions = {})
     notes.push(`this file is shard ${meta.shard} (rows ${meta.rowStart}-${meta.rowEnd} of ${meta.pointCount}): sensitivity needs the whole sweep, merge the shards first`);
   } else if (opts.outputs.length > 0 && spec.axes.length > 0) {
     report = await analyzeResultsFile(file, { outputs: opts.outputs, resamples: options.resamples, seed: options.seed });
-    analysisNotes.push(...report.notes);
+    analysisNotes.push(...report.warnings, ...report.notes);
     const logInputs = new Set<string>(spec.axes.filter((a) => a.scale === 'log').map((a) => a.name));
     for (const output of opts.outputs) {
       const bars = sensitivityBarsSpec(report.records, output, report.inputs);
