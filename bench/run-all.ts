@@ -15,6 +15,7 @@ import { benchSweep } from './sweep.js';
 import { benchWriter } from './writer.js';
 import { benchBigSweep } from './big-sweep.js';
 import { benchBaseline, ACCURACY_TARGET } from './baseline-rk.js';
+import { benchFitCore, benchFitFile } from './fit.js';
 import type { BenchResult } from './util.js';
 
 interface Row {
@@ -66,6 +67,9 @@ async function main(): Promise<void> {
   const baseline = await benchBaseline(400, quick ? 3 : 5);
   log(`big sweep (${bigPoints.toLocaleString('en-US')} points)`);
   const big = benchBigSweep(bigPoints);
+  log(`fit (${bigPoints.toLocaleString('en-US')}-row results file)`);
+  const fitCore = await benchFitCore(2_000_000, quick ? 3 : 5);
+  const fitFile = await benchFitFile(bigPoints);
 
   const two = sweep.efficiency.find((e) => e.workers === 2);
   const rows: Row[] = [
@@ -98,9 +102,24 @@ async function main(): Promise<void> {
       target: '< 1024',
       met: big.peakRssMiB < 1024 ? 'yes' : 'NO',
     },
+    row(fitCore, null),
+    {
+      figure: `fit of a ${fitFile.rows.toLocaleString('en-US')}-row results file [rows per CPU s]`,
+      median: f0(fitFile.rowsPerCpuSecond),
+      spread: `CPU ${fitFile.cpuSeconds.toFixed(2)} s, wall ${fitFile.wallSeconds.toFixed(2)} s, input ${fitFile.inputMiB.toFixed(0)} MiB`,
+      target: '>= 5,000,000',
+      met: fitFile.rowsPerCpuSecond >= 5_000_000 ? 'yes' : 'NO',
+    },
+    {
+      figure: `peak RSS, fit of a ${fitFile.rows.toLocaleString('en-US')}-row results file [MiB]`,
+      median: fitFile.peakRssMiB.toFixed(0),
+      spread: '',
+      target: '< 1024',
+      met: fitFile.peakRssMiB < 1024 ? 'yes' : 'NO',
+    },
   ];
   process.stdout.write(`${printTable(rows)}\n`);
-  const results = { header, quick, cores, node: process.version, column, conductive, sweep, writer, baseline, big, efficiencyTwoWorkers: two ?? null };
+  const results = { header, quick, cores, node: process.version, column, conductive, sweep, writer, baseline, big, fitCore, fitFile, efficiencyTwoWorkers: two ?? null };
   const out = path.join(path.dirname(fileURLToPath(import.meta.url)), '..', '..', 'bench', 'results.json');
   fs.writeFileSync(out, `${JSON.stringify(results, null, 2)}\n`);
   process.stdout.write(`results written to ${path.relative(process.cwd(), out) || out}\n`);

@@ -85,6 +85,34 @@ export { analyzeSensitivity, formatSensitivitySummary } from './analyze/index.js
 export type { AnalysisLayout, SensitivityInput, SensitivityOptions, SensitivityRecord, SensitivityReport } from './analyze/index.js';
 export { analyzeResultsFile, writeSensitivityTable, sensitivityPathFor, type SensitivityFileOptions } from './run/sensitivity-file.js';
 
+// ---- fitting observations ------------------------------------------------------------------
+export {
+  fitTable,
+  FitAccumulator,
+  finishFit,
+  weightsOf,
+  describePrior,
+  parseObserveOption,
+  parseDiscrepancyOption,
+  observationsFromData,
+  checkObservations,
+  refineAxes,
+  refinedSweepData,
+  formatFitSummary,
+  fitJson,
+  type FitAxis,
+  type FitBatch,
+  type FitBestRow,
+  type FitPrior,
+  type FitResult,
+  type FitSetup,
+  type FitSummary,
+  type FitWarning,
+  type Observation,
+} from './fit/index.js';
+export { fitResultsFile, fitPathFor, priorOf, type FitFileOptions, type FitFileResult } from './run/fit-file.js';
+export { writeFitTable, writeRefinedSweep, refinedSweep } from './run/fit-output.js';
+
 // ---- tables on disk: formats, readers, inspection -----------------------------------------
 export { OUTPUT_FORMATS, resolveOutputFormat, parseOutputFormat, formatFromExtension, profilesPathFor, type OutputFormat } from './io/output-format.js';
 export { detectTableFormat, readTableSchema, readTableBatches } from './io/table-reader.js';

@@ -6,6 +6,7 @@ import { InputError } from '../errors.js';
 import { binnedFirstOrder, defaultFirstOrderBins, quantileBins, rowsSortedByInput } from './binned-first-order.js';
 import { createGridScratch, gridAxisVariance, gridGeometry, type GridGeometry } from './grid-variance.js';
 import { gridLocalDerivatives } from './local-derivatives.js';
+import { findAffineCopies } from './copies.js';
 import { binnedMainEffect, gridMainEffect } from './main-effects.js';
 import { saltelliIndices } from './saltelli-estimators.js';
 import type {
@@ -50,11 +51,20 @@ function finiteOrNull(v: number | null): number | null {
   return v !== null && Number.isFinite(v) ? v : null;
 }
 
+/**
+ * Above this fraction of dropped base samples a saltelli analysis warns that its indices are
+ * biased (the dropped samples are not a random subset of the input space).
+ */
+export const SALTELLI_DROP_WARNING_FRACTION = 0.03;
+
 /** Collects records and notes for one analysis. */
 class Collector {
   readonly records: SensitivityRecord[] = [];
   readonly curves: MainEffectCurve[] = [];
+  readonly warnings: string[] = [];
+  readonly dropped = new Map<string, number>();
   private readonly noteSet = new Set<string>();
+  private readonly localNoteSet = new Set<string>();
 
   add(output: string, input: string, measure: SensitivityMeasure, value: number | null, n: number, ci: [number, number] | null = null): void {
     this.records.push({ output, input, measure, value: finiteOrNull(value), ci_low: ci ? ci[0] : null, ci_high: ci ? ci[1] : null, n });
@@ -62,6 +72,15 @@ class Collector {
 
   note(text: string): void {
     this.noteSet.add(text);
+  }
+
+  /** a note about the local-derivative measures (elasticities, slopes) only */
+  localNote(text: string): void {
+    this.localNoteSet.add(text);
+  }
+
+  get localNotes(): string[] {
+    return [...this.localNoteSet];
   }
 
   get notes(): string[] {
@@ -79,6 +98,11 @@ interface OutputContext {
   readonly constant: boolean;
 }
 
+/** Percent with one decimal, e.g. 27.1 %. */
+function pct(part: number, whole: number): string {
+  return `${((100 * part) / whole).toFixed(1)} %`;
+}
+
 /**
  * Sensitivity of every output to every swept input of a design.
  *
@@ -93,8 +117,15 @@ interface OutputContext {
  *   binned-first-order.ts); ST is null (it needs a saltelli design).
  * Main-effect curves: conditional means along each input (grid values, or quantile bins).
  *
+ * With a single swept input every non-constant output's S1 and ST are exactly 1 (all of the
+ * variance of a deterministic output is due to its only input), whatever the design: the exact
+ * value is reported instead of a noisy estimate, with a note pointing to the main-effect curve.
+ *
  * Only rows with include = 1 and a finite output value are used; left-out rows are counted by
- * reason in `counts`, and everything skipped or approximated is said in `notes`.
+ * reason in `counts`, and everything skipped or approximated is said in `notes`. Saltelli designs
+ * count the base samples they drop per output and warn in `warnings` above
+ * SALTELLI_DROP_WARNING_FRACTION. Outputs that are affine copies of an earlier output are listed
+ * in `copies`.
  *
  * @throws InputError when the table does not match its layout or an option is out of range.
  */
@@ -114,12 +145,12 @@ export function analyzeSensitivity(table: SensitivityInput, options: Sensitivity
     const y = table.outputs[name];
     const { used, nullValues } = fillUsable(y, table.include, usable);
     const { mean, variance } = usableMoments(y, usable, used);
-    perOutput[name] = { used, nullValues, mean, variance };
     if (nullValues > 0) c.note(`${name}: ${nullValues} included rows have a null value and are left out for this output.`);
     if (used === 0) c.note(`${name}: no usable rows; every measure is null.`);
     const constant = mean === null || variance === null || isConstant(mean, variance);
     if (used > 0 && constant) c.note(`${name}: constant over the usable rows; its Sobol indices and normalised slopes are null.`);
     analyzeOutput({ name, y, usable, used, mean: mean ?? NaN, variance: variance ?? NaN, constant });
+    perOutput[name] = { used, nullValues, mean, variance, droppedBaseSamples: c.dropped.get(name) ?? null };
   }
 
   return {
@@ -130,6 +161,9 @@ export function analyzeSensitivity(table: SensitivityInput, options: Sensitivity
     mainEffects: c.curves,
     counts: { rows: n, included, leftOut, perOutput },
     notes: c.notes,
+    localNotes: c.localNotes,
+    warnings: c.warnings,
+    copies: findAffineCopies(outputNames, table.outputs, table.include),
     settings,
   };
 }
@@ -155,20 +189,37 @@ function prepareDesign(
     // main-effect curves from the independent samples of A and B
     const sorted = inputs.map((name) => rowsSortedByInput(table.inputs[name], table.include, 0, 2 * base));
     return (out) => {
-      const est = saltelliIndices(out.y, out.usable, base, inputs, out.name, settings);
-      inputs.forEach((input, i) => {
-        const e = est[i];
-        const s1 = out.constant ? null : e.s1;
-        const st = out.constant ? null : e.st;
-        c.add(out.name, input, 'S1', s1, e.m, s1 === null ? null : e.s1Ci);
-        c.add(out.name, input, 'ST', st, e.m, st === null ? null : e.stCi);
-        if (e.m < base) {
-          c.note(`${out.name}: S1 and ST for ${input} use ${e.m} of ${base} base samples (a base sample is dropped when its A, B or AB row is not usable).`);
+      const dropped = droppedBaseSamples(out.usable, base, inputs.length);
+      c.dropped.set(out.name, dropped);
+      if (dropped > 0 && out.used > 0) {
+        const text =
+          `${out.name}: ${dropped} of ${base} base samples (${pct(dropped, base)}) are dropped because a row of their A, B or AB block has no value`;
+        if (dropped > SALTELLI_DROP_WARNING_FRACTION * base) {
+          c.warnings.push(
+            `${text}. The dropped samples are not a random subset of the inputs' ranges, so the S1 and ST of ${out.name} are biased. ` +
+              `Narrow the swept ranges to where ${out.name} has a value, or analyse outputs that have a value in every row.`,
+          );
+        } else {
+          c.note(`${text}; the indices use the rest.`);
         }
-        if (e.m < 2) c.note(`${out.name}: fewer than 2 usable base samples for ${input}; its indices are null.`);
+      }
+      if (inputs.length === 1) {
+        oneInputIndices(out, inputs[0], c);
+      } else {
+        const est = saltelliIndices(out.y, out.usable, base, inputs, out.name, settings);
+        inputs.forEach((input, i) => {
+          const e = est[i];
+          const s1 = out.constant ? null : e.s1;
+          const st = out.constant ? null : e.st;
+          c.add(out.name, input, 'S1', s1, e.m, s1 === null ? null : e.s1Ci);
+          c.add(out.name, input, 'ST', st, e.m, st === null ? null : e.stCi);
+          if (e.m < 2) c.note(`${out.name}: fewer than 2 usable base samples for ${input}; its indices are null.`);
+        });
+      }
+      inputs.forEach((input, i) => {
         c.curves.push(binnedMainEffect(out.name, input, quantileBins(table.inputs[input], out.y, out.usable, sorted[i], settings.curveBins)));
       });
-      if (settings.resamples > 0) {
+      if (settings.resamples > 0 && inputs.length > 1) {
         c.note(`Saltelli intervals: ${Math.round(settings.confidence * 100)} % bootstrap percentile intervals from ${settings.resamples} resamples of base samples (seed ${settings.seed}).`);
       }
     };
@@ -179,8 +230,13 @@ function prepareDesign(
     const missing = included - sorted[i].length;
     if (missing > 0) c.note(`${name}: ${missing} included rows have no value (NaN) and are left out of its S1 and main-effect curve.`);
   });
-  c.note(`ST needs a saltelli design: total-effect indices are null for a ${layout.kind} design.`);
+  if (inputs.length > 1) c.note(`ST needs a saltelli design: total-effect indices are null for a ${layout.kind} design.`);
   return (out) => {
+    if (inputs.length === 1) {
+      oneInputIndices(out, inputs[0], c);
+      c.curves.push(binnedMainEffect(out.name, inputs[0], quantileBins(table.inputs[inputs[0]], out.y, out.usable, sorted[0], settings.curveBins)));
+      return;
+    }
     const bins = settings.bins ?? defaultFirstOrderBins(out.used);
     inputs.forEach((input, i) => {
       const x = table.inputs[input];
@@ -191,6 +247,31 @@ function prepareDesign(
     });
     c.note(`${out.name}: S1 from ${bins} equal-count bins per input (bias-corrected correlation ratio); no confidence intervals.`);
   };
+}
+
+/** Base samples j of a saltelli table (block-major) with at least one unusable row among A_j, B_j, AB_i,j. */
+function droppedBaseSamples(usable: Uint8Array, base: number, k: number): number {
+  let dropped = 0;
+  for (let j = 0; j < base; j++) {
+    let ok = usable[j] !== 0 && usable[base + j] !== 0;
+    for (let i = 0; ok && i < k; i++) ok = usable[(2 + i) * base + j] !== 0;
+    if (!ok) dropped++;
+  }
+  return dropped;
+}
+
+/**
+ * One swept input: S1 = ST = 1 exactly for a non-constant deterministic output (Var E[Y|X] = Var Y),
+ * null for a constant one. No estimator runs, so there are no intervals.
+ */
+function oneInputIndices(out: OutputContext, input: string, c: Collector): void {
+  const value = out.constant || out.used === 0 ? null : 1;
+  c.add(out.name, input, 'S1', value, out.used);
+  c.add(out.name, input, 'ST', value, out.used);
+  c.note(
+    `${input} is the only swept input: it explains all of the variance of every output that varies, so S1 = ST = 1 by definition ` +
+      '(no estimate is made). How an output depends on it is in its main-effect curve; sweep more inputs to compare their influence.',
+  );
 }
 
 function analyzeGridOutput(
@@ -248,11 +329,11 @@ function analyzeGridOutput(
     c.add(name, input, 'slope_norm_p10', slope(ld.slope[0]), ld.slopeCount);
     c.add(name, input, 'slope_norm_p90', slope(ld.slope[2]), ld.slopeCount);
     if (ld.nonPositive > 0) {
-      c.note(`${name} vs ${input}: elasticity left out at ${ld.nonPositive} of ${ld.slopeCount} points where x <= 0 or y <= 0.`);
+      c.localNote(`${name} vs ${input}: elasticity left out at ${ld.nonPositive} of ${ld.slopeCount} points where x <= 0 or y <= 0.`);
     }
     if (size > 1 && ld.noStencil > 0) {
       const why = settings.edges === 'skip' ? 'an axis end or a neighbour not usable (edges: skip)' : 'no usable neighbour';
-      c.note(`${name} vs ${input}: no derivative at ${ld.noStencil} usable points (${why}).`);
+      c.localNote(`${name} vs ${input}: no derivative at ${ld.noStencil} usable points (${why}).`);
     }
   });
 }

@@ -1,7 +1,11 @@
 /**
- * A short terminal summary of a sensitivity report: per output, the inputs ranked by their
- * total-effect index (or first-order index when totals are not available), with values.
+ * A short terminal summary of a sensitivity report: one line per distinct output with the inputs
+ * ranked by their total-effect index (first-order where totals are not available), rounded to the
+ * estimator's precision; outputs that copy another are named beside it, indices that need more
+ * samples are listed, then warnings and the first notes. The full table (intervals, elasticities,
+ * slopes) is in the sensitivity file.
  */
+import { formatIndex, needsMoreSamples } from './precision.js';
 import type { SensitivityMeasure, SensitivityRecord, SensitivityReport } from './types.js';
 
 export interface SummaryOptions {
@@ -13,71 +17,70 @@ function count(v: number): string {
   return v.toLocaleString('en-US');
 }
 
-function index(r: SensitivityRecord | undefined): string {
-  if (r === undefined || r.value === null) return '-';
-  const v = r.value.toFixed(3);
-  return r.ci_low !== null && r.ci_high !== null ? `${v} [${r.ci_low.toFixed(3)}, ${r.ci_high.toFixed(3)}]` : v;
-}
-
-function general(v: number | null): string {
-  if (v === null) return '-';
-  const a = Math.abs(v);
-  return a !== 0 && (a >= 1e4 || a < 1e-3) ? v.toExponential(2) : Number(v.toPrecision(3)).toString();
-}
-
-function table(rows: string[][]): string[] {
-  const widths = rows[0].map((_, col) => Math.max(...rows.map((r) => r[col].length)));
-  return rows.map((r) => `  ${r.map((cell, col) => cell.padEnd(widths[col])).join('  ')}`.trimEnd());
-}
-
-/** Render a report as a few lines of plain text (no colours), e.g. for `meltsweep analyze`. */
+/** Render a report as a few lines of plain text (no colours), e.g. after `meltsweep run`. */
 export function formatSensitivitySummary(report: SensitivityReport, options: SummaryOptions = {}): string {
   const maxNotes = options.maxNotes ?? 6;
-  const { counts } = report;
-  const lines: string[] = [];
-  lines.push(
-    `Sensitivity of ${report.outputs.length} output(s) to ${report.inputs.length} input(s), ${report.design} design: ` +
-      `${count(counts.rows)} rows, ${count(counts.included)} included`,
-  );
-  const left = Object.entries(counts.leftOut);
-  if (left.length > 0) lines.push(`Left out: ${left.map(([reason, k]) => `${reason} ${count(k)}`).join(', ')}`);
-
+  const { counts, design } = report;
   const byKey = new Map<string, SensitivityRecord>();
   for (const r of report.records) byKey.set(`${r.output}\u0000${r.input}\u0000${r.measure}`, r);
   const get = (output: string, input: string, m: SensitivityMeasure): SensitivityRecord | undefined => byKey.get(`${output}\u0000${input}\u0000${m}`);
 
-  for (const output of report.outputs) {
-    const oc = counts.perOutput[output];
-    const sd = oc.variance === null ? null : Math.sqrt(oc.variance);
-    lines.push('');
-    lines.push(`${output}  (${count(oc.used)} rows used; mean ${general(oc.mean)}, sd ${general(sd)})`);
-    const hasTotal = report.inputs.some((i) => get(output, i, 'ST')?.value != null);
-    const rankBy: SensitivityMeasure = hasTotal ? 'ST' : 'S1';
-    const hasElasticity = report.inputs.some((i) => get(output, i, 'elasticity_median') !== undefined);
-    const ranked = [...report.inputs].sort((p, q) => {
-      const a = get(output, p, rankBy)?.value ?? -Infinity;
-      const b = get(output, q, rankBy)?.value ?? -Infinity;
-      return b - a;
-    });
-    const header = ['input', 'ST', 'S1'];
-    if (hasElasticity) header.push('elasticity (p10 / median / p90)');
-    const rows = [header];
-    for (const input of ranked) {
-      const row = [input, index(get(output, input, 'ST')), index(get(output, input, 'S1'))];
-      if (hasElasticity) {
-        const e = (m: SensitivityMeasure): string => general(get(output, input, m)?.value ?? null);
-        row.push(`${e('elasticity_p10')} / ${e('elasticity_median')} / ${e('elasticity_p90')}`);
-      }
-      rows.push(row);
-    }
-    lines.push(...table(rows));
-  }
+  const distinct = report.outputs.filter((o) => report.copies[o] === undefined);
+  const lines: string[] = [];
+  const left = Object.entries(counts.leftOut);
+  lines.push(
+    `Sensitivity (${design} design): ${count(counts.rows)} rows, ${count(counts.included)} used` +
+      (left.length > 0 ? ` (left out: ${left.map(([reason, k]) => `${reason} ${count(k)}`).join(', ')})` : '') +
+      `; ${report.inputs.length} input(s); ${report.outputs.length} output(s)` +
+      (distinct.length < report.outputs.length ? `, ${distinct.length} distinct` : ''),
+  );
+  const hasTotal = report.records.some((r) => r.measure === 'ST' && r.value !== null);
+  lines.push(
+    hasTotal
+      ? 'Inputs ranked by total-effect index ST (first-order S1 in brackets), rounded to the precision of each estimate:'
+      : 'Inputs ranked by first-order index S1, rounded to the precision of each estimate:',
+  );
 
+  const width = Math.max(...distinct.map((o) => o.length));
+  const flagged: string[] = [];
+  for (const output of distinct) {
+    const oc = counts.perOutput[output];
+    const rankBy: SensitivityMeasure = report.inputs.some((i) => get(output, i, 'ST')?.value != null) ? 'ST' : 'S1';
+    const ranked = [...report.inputs].sort((p, q) => (get(output, q, rankBy)?.value ?? -Infinity) - (get(output, p, rankBy)?.value ?? -Infinity));
+    const cells: string[] = [];
+    for (const input of ranked) {
+      const main = get(output, input, rankBy);
+      const s1 = get(output, input, 'S1');
+      let cell = `${input} ${main === undefined ? '-' : formatIndex(main, design)}`;
+      if (rankBy === 'ST' && s1 !== undefined) cell += ` (${formatIndex(s1, design)})`;
+      cells.push(cell);
+      for (const r of [main, rankBy === 'ST' ? s1 : undefined]) {
+        const why = r === undefined ? null : needsMoreSamples(r, design);
+        if (r !== undefined && why !== null) {
+          const ci = r.ci_low !== null && r.ci_high !== null ? ` [${r.ci_low.toFixed(2)}, ${r.ci_high.toFixed(2)}]` : '';
+          flagged.push(`${output} / ${input}: ${r.measure} ${r.value?.toFixed(2)}${ci}: ${why}`);
+        }
+      }
+    }
+    const allNull = cells.length > 0 && report.inputs.every((i) => get(output, i, rankBy)?.value == null);
+    let text = allNull ? (oc.used === 0 ? 'no usable rows' : 'constant over the used rows') : cells.join(' > ');
+    if (oc.used < counts.included && oc.used > 0) text += `  [${count(oc.used)} rows]`;
+    const also = report.outputs.filter((o) => report.copies[o]?.of === output);
+    if (also.length > 0) text += `  (same as ${also.join(', ')})`;
+    lines.push(`  ${output.padEnd(width)}  ${text}`);
+  }
+  if (flagged.length > 0) {
+    lines.push('Needs more samples (estimator noise; a larger design narrows these):');
+    for (const f of flagged) lines.push(`  ${f}`);
+  }
+  if (report.warnings.length > 0) {
+    lines.push('Warnings:');
+    for (const w of report.warnings) lines.push(`  - ${w}`);
+  }
   if (report.notes.length > 0) {
-    lines.push('');
     lines.push('Notes:');
     for (const note of report.notes.slice(0, maxNotes)) lines.push(`  - ${note}`);
-    if (report.notes.length > maxNotes) lines.push(`  ... and ${report.notes.length - maxNotes} more in the report`);
+    if (report.notes.length > maxNotes) lines.push(`  ... and ${report.notes.length - maxNotes} more in the sensitivity table's metadata`);
   }
   return lines.join('\n');
 }

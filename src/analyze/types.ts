@@ -6,6 +6,7 @@
  * {@link AnalysisLayout} is a structural copy of the planner's `DesignLayout`; any plan layout is
  * assignable to it.
  */
+import type { AffineCopy } from './copies.js';
 
 /** One grid axis: the input's name and its values in row order. */
 export interface GridAxisLayout {
@@ -135,6 +136,11 @@ export interface OutputCounts {
   /** mean and population variance over the used rows; null without used rows */
   readonly mean: number | null;
   readonly variance: number | null;
+  /**
+   * saltelli designs: base samples left out of at least one input's estimate because a row of
+   * their A, B or AB_i block is not usable (null for other designs)
+   */
+  readonly droppedBaseSamples: number | null;
 }
 
 export interface SensitivityCounts {
@@ -157,5 +163,11 @@ export interface SensitivityReport {
   readonly counts: SensitivityCounts;
   /** what was skipped, approximated or cannot be computed, in plain words */
   readonly notes: readonly string[];
+  /** notes about the local-derivative measures only (elasticity_*, slope_norm_*) */
+  readonly localNotes: readonly string[];
+  /** what makes some indices unreliable (e.g. biased by dropped samples), with what to do */
+  readonly warnings: readonly string[];
+  /** outputs that are affine copies of an earlier output on the usable rows (identical indices) */
+  readonly copies: Readonly<Record<string, AffineCopy>>;
   readonly settings: ResolvedSensitivityOptions;
 }

@@ -17,7 +17,8 @@ export function nanValidity(values: Float64Array): { bitmap: Uint8Array | undefi
   return { bitmap, nullCount };
 }
 
-function floatData(values: Float64Array): arrow.Data<arrow.Float64> {
+/** A Float64 column from a typed array (NaN = null). */
+export function floatData(values: Float64Array): arrow.Data<arrow.Float64> {
   const { bitmap, nullCount } = nanValidity(values);
   return arrow.makeData({ type: new arrow.Float64(), length: values.length, nullCount, nullBitmap: bitmap, data: values });
 }
@@ -71,6 +72,20 @@ function scenarioIds(start: number, n: number): BigInt64Array {
     words[2 * i + 1] = Math.floor(id / 4294967296);
   }
   return ids;
+}
+
+/** Int64 column data from whole numbers held in doubles (exact up to 2^53; no BigInt per row). */
+export function int64Data(values: Float64Array): arrow.Data<arrow.Int64> {
+  const n = values.length;
+  const out = new BigInt64Array(n);
+  const words = new Uint32Array(out.buffer);
+  for (let i = 0; i < n; i++) {
+    const v = values[i];
+    const hi = Math.floor(v / 4294967296);
+    words[2 * i] = (v - hi * 4294967296) >>> 0;
+    words[2 * i + 1] = hi >>> 0;
+  }
+  return arrow.makeData({ type: new arrow.Int64(), length: n, nullCount: 0, data: out });
 }
 
 /**

@@ -5,12 +5,15 @@
  *
  * - crust thickness of the passive (triangular) melting regime, h_c = (1/(rho_c g)) int F dP
  *   with P in Pa (Plank & Langmuir 1992; Langmuir, Klein & Plank 1992);
- * - mean extent of melting F_mean = int F dP / (P_onset - P_top);
+ * - the melting interval runs from the onset to P_top, where melting stops (the shallowest point where
+ *   F still increases: the lid base of an isentropic column, deeper in a conductive one that the lid
+ *   cools); interval fields (top, t_top_c, f_mean, productivity) describe it for every thermal model;
+ * - mean extent of melting F_mean = int F dP / (P_onset - P_top) over the melting interval;
  * - water in the pooled melt = total water extracted / total melt extracted, both pooled over the
  *   melting regime with the same weighting as the crust: int W dP / int F dP, where W(P) is the
  *   water carried away by the melt per unit mass of source at P (batch: F X_melt; fractional: the
  *   water extracted with all melt increments so far);
- * - productivity = the mean of -dF/dP x 100 over the melting interval, which is exactly
+ * - productivity = the mean of -dF/dP x 100 over the melting interval (any thermal model), which is exactly
  *   100 (F_top - F_onset) / (P_onset - P_top) (%/GPa), with F_onset = 0;
  * - melt flux of an actively upwelling column rho_s w F_max (w in m/yr), null without a rate.
  *
@@ -34,7 +37,7 @@ export type ColumnFn = (scenario: Scenario, model: ModelOptions) => ColumnResult
 export interface MeltingSummary {
   /** pressure where melting starts, GPa */
   readonly onsetPGpa: number;
-  /** pressure where melting stops (base of the lid), GPa */
+  /** pressure where melting stops: the shallowest point where F still increases, GPa */
   readonly topPGpa: number;
   /** largest melt fraction along the column */
   readonly fMax: number;
@@ -42,8 +45,13 @@ export interface MeltingSummary {
   readonly fTop: number;
   /** temperature at the top of the column, degC */
   readonly tTopC: number;
-  /** int F dP over [topPGpa, onsetPGpa], GPa */
+  /**
+   * int F dP over the column up to where the flow turns (the lid base), GPa: the crust. Where melting
+   * stops below the lid (conductive columns) F keeps its maximum above topPGpa and counts too.
+   */
   readonly meltIntegralGpa: number;
+  /** int F dP over the melting interval [topPGpa, onsetPGpa], GPa (default meltIntegralGpa) */
+  readonly meltingIntervalIntegralGpa?: number;
   /** int W dP over [topPGpa, onsetPGpa], wt% GPa (W: water carried by the melt per unit mass of source, wt%) */
   readonly waterIntegralWtPctGpa: number;
   /** conductive heat flow through the lid, mW/m2 (null or absent for isentropic runs) */
@@ -128,7 +136,7 @@ export function meltingResult(s: MeltingSummary, scenario: Scenario, p: MeltPara
     top_p_gpa: s.topPGpa,
     top_depth_km: depthKmFromPGpa(s.topPGpa, p.rho_s, p.g),
     f_max: s.fMax,
-    f_mean: s.meltIntegralGpa / span,
+    f_mean: (s.meltingIntervalIntegralGpa ?? s.meltIntegralGpa) / span,
     crust_km: crustKmFromMeltIntegral(s.meltIntegralGpa, p),
     t_top_c: s.tTopC,
     h2o_melt_wt_pct: s.meltIntegralGpa > 0 ? s.waterIntegralWtPctGpa / s.meltIntegralGpa : 0,

@@ -9,29 +9,28 @@
  * Choices (see also conductive-solver.ts and conductive-grid.ts):
  * - Lid: inside the lid heat only conducts, linearly from T_surface at z = 0; the conductive flux
  *   is continuous at z_lid. With lid_km = 0 the top node is the surface itself, held at T_surface.
- * - Domain: from z_lid down to max(onset on the adiabat + 10 km, z_lid + 15 kappa/w), capped at the
- *   depth of the model range (MODEL_MAX_P_GPA, 8 GPa ~ 247 km); there T = the solid adiabat. For
- *   w below ~ 1 mm/yr the boundary layer is thicker than the cap allows (0.1 mm/yr: kappa/w ~ 315 km),
- *   so the adiabat is imposed where the true profile would still be slightly cooled: the column is
- *   then the steady state of a 247 km deep mantle box, not of an infinitely deep one.
+ * - Domain: from z_lid down to z_b = max(onset on the adiabat + 10 km, onset + 10 kappa/w,
+ *   z_lid + 15 kappa/w) (conductive-grid.ts); there T = Tp[K] exp(m+ z_b), the sub-solidus steady
+ *   solution (conductive-far-field.ts), so the column does not depend on z_b. z_b may lie deeper than
+ *   the model range (0.1 mm/yr: kappa/w ~ 315 km): nodes deeper than MODEL_MAX_P_GPA never melt.
  * - Melt is extracted as it forms: F is the running maximum of the equilibrium F along the upward
  *   path (no refreezing); latent heat uses that F.
- * - Aggregates: the melting column runs from the onset (deepest F > 0, interpolated between nodes
- *   on the excess over the wet solidus) to the lid base, as in the isentropic column. Above the depth
- *   where F last increases the extracted F stays at its maximum, and the crust integral
- *   (1/(rho_c g)) int F dP runs up to the lid base: in the passive triangular regime the apex is where
- *   the flow turns (the lid base), and each column contributes the melt it extracted before turning.
- *   top_p_gpa / top_depth_km are therefore the lid base and t_top_c is the temperature there (the
- *   surface temperature with no lid); the depth where melting stops is in ConductiveState.
+ * - Aggregates: the melting interval runs from the onset (deepest F > 0, interpolated between nodes
+ *   on the excess over the wet solidus) up to where melting stops, the shallowest node where F still
+ *   increases (meltStopIndex): top_p_gpa / top_depth_km / t_top_c are there, and f_mean and the
+ *   productivity are taken over that interval. Above it the extracted F stays at its maximum, and the
+ *   crust integral (1/(rho_c g)) int F dP runs up to the lid base: in the passive triangular regime the
+ *   apex is where the flow turns (the lid base), and each column contributes the melt it extracted
+ *   before turning.
  * - Water: batch mode only. In fractional mode the residue water depends on the whole path and the
  *   node equations lose their local (tridiagonal) structure; such rows fail with
  *   "fractional water is not available with the conductive model".
  * - surface_heat_flow_mw_m2 = k (T(z_lid) - T_s) / z_lid, the conductive flux through the lid
  *   (with no lid, k dT/dz at the surface from the discrete flux balance of the top node).
  */
-import { adiabatTempK } from './adiabat.js';
 import { failedResult, meltingResult, type MeltingSummary, noMeltResult, onsetBeyondRangeResult } from './column-result.js';
 import { buildConductiveGrid, conductiveBottomM } from './conductive-grid.js';
+import { farFieldTempK } from './conductive-far-field.js';
 import { buildNodeMeltTable } from './conductive-melt.js';
 import { type ConductiveSystem, solveConductiveSystem } from './conductive-solver.js';
 import { batchMeltWaterWtPct, wetSolidusC } from './melting.js';
@@ -76,6 +75,12 @@ export interface ConductiveState {
   readonly iterations: number;
 }
 
+/** Overrides of the solver's domain (tests of the bottom boundary condition). */
+export interface ConductiveDomainOptions {
+  /** put the bottom of the domain at least this deep, m */
+  readonly minBottomM?: number;
+}
+
 /** Outcome of solving the steady column for one scenario. */
 export type ConductiveOutcome =
   | { readonly kind: 'solved'; readonly state: ConductiveState }
@@ -90,15 +95,15 @@ export type ConductiveOutcome =
  * @param model params (k, T_surface and the melting law), water mode (batch only),
  *   conductiveResolution (grid refinement, default 1), conductiveMaxIterations (default 60)
  */
-export function conductiveProfile(scenario: Scenario, model: ModelOptions): ConductiveOutcome {
+export function conductiveProfile(scenario: Scenario, model: ModelOptions, domain: ConductiveDomainOptions = {}): ConductiveOutcome {
   try {
-    return solveUnchecked(scenario, model);
+    return solveUnchecked(scenario, model, domain);
   } catch (err) {
     return { kind: 'failed', reason: `conductive column: ${err instanceof Error ? err.message : String(err)}` };
   }
 }
 
-function solveUnchecked(scenario: Scenario, model: ModelOptions): ConductiveOutcome {
+function solveUnchecked(scenario: Scenario, model: ModelOptions, domain: ConductiveDomainOptions): ConductiveOutcome {
   const p = model.params;
   const { tp_c: tpC, water_ppm: waterPpm, lid_km: lidKm, upwelling_mm_yr: wMmYr } = scenario;
   const fail = (reason: string): ConductiveOutcome => ({ kind: 'failed', reason });
@@ -136,7 +141,7 @@ function solveUnchecked(scenario: Scenario, model: ModelOptions): ConductiveOutc
   const lidM = lidKm * 1000;
   const toM = (pGpa: number): number => depthKmFromPGpa(pGpa, p.rho_s, p.g) * 1000;
   const onsetM = onsetPGpa === null ? Number.NaN : toM(onsetPGpa);
-  const bottomM = conductiveBottomM(lidM, onsetM, kappa / wMPerS, toM(MODEL_MAX_P_GPA));
+  const bottomM = Math.max(conductiveBottomM(lidM, onsetM, kappa / wMPerS), domain.minBottomM ?? 0);
   const zM = buildConductiveGrid({ lidM, onsetM, bottomM, blThicknessM: kappa / wMPerS, resolution });
   const nodes = zM.length;
   const pPa = new Float64Array(nodes);
@@ -148,10 +153,10 @@ function solveUnchecked(scenario: Scenario, model: ModelOptions): ConductiveOutc
   const sys: ConductiveSystem = {
     zM,
     pPa,
-    melt: buildNodeMeltTable(pGpa, x0, p),
+    melt: buildNodeMeltTable(pGpa, x0, p, MODEL_MAX_P_GPA),
     lidM,
     tSurfaceK: p.T_surface + KELVIN_OFFSET,
-    tBottomK: adiabatTempK(tpC, pGpa[nodes - 1], p),
+    tBottomK: farFieldTempK(tpC, zM[nodes - 1], wMPerS, kappa, p),
     kappaM2S: kappa,
     params: p,
   };
@@ -196,8 +201,8 @@ function solveUnchecked(scenario: Scenario, model: ModelOptions): ConductiveOutc
  * @param scenario tp_c (degC), water_ppm (ppm), lid_km (km), upwelling_mm_yr (mm/yr, required, > 0)
  * @param model water mode (batch), params, withProfile, conductiveResolution, conductiveMaxIterations
  */
-export function conductiveColumn(scenario: Scenario, model: ModelOptions): ColumnResult {
-  const out = conductiveProfile(scenario, model);
+export function conductiveColumn(scenario: Scenario, model: ModelOptions, domain: ConductiveDomainOptions = {}): ColumnResult {
+  const out = conductiveProfile(scenario, model, domain);
   if (out.kind === 'failed') return failedResult(out.reason);
   if (out.kind === 'onset_beyond_range') return onsetBeyondRangeResult(out.reason);
   const s = out.state;
@@ -230,11 +235,15 @@ function summarize(s: ConductiveState, x0: number, p: MeltParams, withProfile: b
     if (i === io || s.fEq[i] > f[i + 1]) argMax = i;
     water[i] = x0 > 0 ? f[i] * batchMeltWaterWtPct(f[i], pGpa[argMax], x0, p) : 0;
   }
+  const stop = Math.max(0, Math.min(s.meltStopIndex, io));
   let meltInt = 0.5 * f[io] * (onsetPGpa - pGpa[io]);
   let waterInt = 0.5 * water[io] * (onsetPGpa - pGpa[io]);
+  let intervalInt = meltInt;
   for (let i = 0; i < io; i++) {
     const dp = pGpa[i + 1] - pGpa[i];
-    meltInt += 0.5 * (f[i] + f[i + 1]) * dp;
+    const cell = 0.5 * (f[i] + f[i + 1]) * dp;
+    meltInt += cell;
+    if (i >= stop) intervalInt += cell;
     waterInt += 0.5 * (water[i] + water[i + 1]) * dp;
   }
   let profile: ColumnProfile | undefined;
@@ -259,13 +268,16 @@ function summarize(s: ConductiveState, x0: number, p: MeltParams, withProfile: b
     }
     profile = pr;
   }
+  // a stop at the onset node itself (a single melting node) leaves the interval to the interpolated onset
+  const topPGpa = stop === io && onsetPGpa <= pGpa[io] ? pGpa[Math.max(0, io - 1)] : pGpa[stop];
   return {
     onsetPGpa,
-    topPGpa: pGpa[0],
+    topPGpa,
     fMax: f[0],
     fTop: f[0],
-    tTopC: tC[0],
+    tTopC: stop === io && onsetPGpa <= pGpa[io] ? tC[Math.max(0, io - 1)] : tC[stop],
     meltIntegralGpa: meltInt,
+    meltingIntervalIntegralGpa: intervalInt,
     waterIntegralWtPctGpa: waterInt,
     surfaceHeatFlowMwM2: s.surfaceHeatFlowMwM2,
     profile,

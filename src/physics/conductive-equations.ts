@@ -21,7 +21,7 @@
  *
  * Top: the lid only conducts, T linear from T_s at z = 0, conductive flux continuous at z_lid:
  *     J_lid = kappa (T_0 - T_s) / z_lid + w T_0  (with z_lid = 0: T_0 = T_s at the surface).
- * Bottom: T_N = solid adiabat (Dirichlet).
+ * Bottom: T_N = Tp[K] exp(m+ z_N), the sub-solidus steady solution (Dirichlet; conductive-far-field.ts).
  * Melt is extracted as it forms: F_i = max over j >= i of F_eq(T_j, P_j) (the running maximum along
  * the upward path, no refreezing).
  *
@@ -42,7 +42,7 @@ export interface ConductiveSystem {
   /** lid thickness, m (0: the top node is the surface, held at T_s) */
   readonly lidM: number;
   readonly tSurfaceK: number;
-  /** solid-adiabat temperature at the bottom node, K */
+  /** temperature imposed at the bottom node (sub-solidus steady solution), K */
   readonly tBottomK: number;
   /** thermal diffusivity k / (rho_s c_P), m2/s */
   readonly kappaM2S: number;

@@ -16,8 +16,12 @@ export const CONDUCTIVE_GRID_DEFAULTS = {
   hDeepM: 5000,
   /** domain reaches this many boundary-layer thicknesses below the lid ... */
   blDepths: 15,
+  /** ... and below the adiabatic onset (physics reference: z_b >= onset + 10 kappa/w) ... */
+  onsetBlDepths: 10,
   /** ... and at least this far below the adiabatic onset, m */
   onsetMarginM: 10_000,
+  /** below the onset the largest spacing is also allowed to reach this fraction of kappa/w */
+  deepBlFraction: 0.1,
 } as const;
 
 /** What the grid must resolve. All depths in m, positive down. */
@@ -35,21 +39,28 @@ export interface ConductiveGridSpec {
 }
 
 /**
- * Bottom of the domain (m): deep enough that the boundary layer has died out
- * (z_lid + 15 kappa/w) and at least 10 km below the adiabatic onset, but no deeper than capM
- * (the model's pressure range); always at least 1 km below the onset and the lid.
+ * Bottom of the domain (m), where the sub-solidus steady solution is imposed: deep enough that the
+ * boundary layer of the lid has died out (z_lid + 15 kappa/w) and, below the adiabatic onset, the
+ * one of the melting region (onset + 10 kappa/w, project physics reference), and at least 10 km
+ * below the onset. It may lie deeper than the model's pressure range: nothing melts down there
+ * (the column is below the adiabat, which is below the solidus under the onset), so only the
+ * advection-diffusion of the solid is solved.
+ *
+ * @param lidM lid thickness, m
+ * @param onsetM depth of the adiabatic onset, m (NaN when the adiabat does not melt)
+ * @param blThicknessM kappa / w, m
  */
-export function conductiveBottomM(lidM: number, onsetM: number, blThicknessM: number, capM: number): number {
+export function conductiveBottomM(lidM: number, onsetM: number, blThicknessM: number): number {
   const d = CONDUCTIVE_GRID_DEFAULTS;
   const onset = Number.isFinite(onsetM) ? onsetM : lidM;
-  const wanted = Math.max(onset + d.onsetMarginM, lidM + d.blDepths * blThicknessM);
-  return Math.max(Math.min(wanted, capM), onset + 1000, lidM + 1000);
+  return Math.max(onset + d.onsetMarginM, onset + d.onsetBlDepths * blThicknessM, lidM + d.blDepths * blThicknessM);
 }
 
 /**
  * Node depths (m), strictly increasing from spec.lidM to spec.bottomM.
  * Spacing: h(z) = min(h0 + growth (z - z_lid), cap(z)), h0 = blFraction kappa/w, where cap is
- * hMeltM above the onset and grows geometrically from hMeltM at the onset to hDeepM below it.
+ * hMeltM above the onset and grows geometrically from hMeltM at the onset (at the lid when the
+ * adiabat does not melt) to max(hDeepM, deepBlFraction kappa/w) below it.
  * Each segment (lid -> onset -> bottom) is marched with h(z) and then stretched to end exactly
  * on its end point.
  */
@@ -58,14 +69,17 @@ export function buildConductiveGrid(spec: ConductiveGridSpec): Float64Array {
   const res = spec.resolution > 0 ? spec.resolution : 1;
   const growth = d.growth / res;
   const hMelt = d.hMeltM / res;
-  const hDeep = d.hDeepM / res;
+  // below the onset the profile is smooth on the scale kappa/w, which may be hundreds of km
+  const hDeep = Math.max(d.hDeepM, d.deepBlFraction * spec.blThicknessM) / res;
   const h0 = Math.min(hMelt, (d.blFraction * spec.blThicknessM) / res);
   const top = spec.lidM;
   const bottom = spec.bottomM;
   const onset = spec.onsetM > top && spec.onsetM < bottom ? spec.onsetM : NaN;
+  // below the onset (or everywhere when the adiabat does not melt) no melting can happen
+  const deepFrom = Number.isFinite(onset) ? onset : top;
   const spacing = (z: number): number => {
     let cap = hMelt;
-    if (Number.isFinite(onset) && z > onset) cap = Math.min(hDeep, hMelt + growth * (z - onset));
+    if (z > deepFrom) cap = Math.min(hDeep, hMelt + growth * (z - deepFrom));
     const bl = h0 + growth * (z - top);
     return bl < cap ? bl : cap;
   };

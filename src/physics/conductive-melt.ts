@@ -48,8 +48,15 @@ export interface NodeMeltTable {
  * Precompute the melting-law terms that depend only on pressure.
  * @param pGpa pressure of each node, GPa
  * @param bulkWaterWtPct bulk water of the source, wt% (batch partitioning)
+ * @param meltsUpToPGpa nodes deeper than this never melt (the melting law is not used outside the
+ *   model's pressure range), GPa; default Infinity
  */
-export function buildNodeMeltTable(pGpa: Float64Array, bulkWaterWtPct: number, p: MeltParams): NodeMeltTable {
+export function buildNodeMeltTable(
+  pGpa: Float64Array,
+  bulkWaterWtPct: number,
+  p: MeltParams,
+  meltsUpToPGpa: number = Number.POSITIVE_INFINITY,
+): NodeMeltTable {
   const n = pGpa.length;
   const curves: MeltingCurves[] = new Array<MeltingCurves>(n);
   const xSatWtPct = new Float64Array(n);
@@ -57,7 +64,10 @@ export function buildNodeMeltTable(pGpa: Float64Array, bulkWaterWtPct: number, p
   for (let i = 0; i < n; i++) {
     curves[i] = setMeltingCurves(createMeltingCurves(), pGpa[i], p);
     xSatWtPct[i] = waterSaturationWtPct(pGpa[i], p);
-    tWetSolK[i] = (bulkWaterWtPct > 0 ? wetSolidusC(pGpa[i], bulkWaterWtPct, p) : curves[i].tSolC) + KELVIN_OFFSET;
+    tWetSolK[i] =
+      pGpa[i] > meltsUpToPGpa
+        ? Number.POSITIVE_INFINITY
+        : (bulkWaterWtPct > 0 ? wetSolidusC(pGpa[i], bulkWaterWtPct, p) : curves[i].tSolC) + KELVIN_OFFSET;
   }
   return { n, bulkWaterWtPct, curves, xSatWtPct, tWetSolK, params: p };
 }

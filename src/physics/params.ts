@@ -11,6 +11,7 @@
  * judging the science.
  */
 import { z } from 'zod';
+import { MODEL_MAX_P_GPA } from './types.js';
 
 export interface ParamInfo {
   /** default value (published or convention) */
@@ -115,10 +116,44 @@ export function resolveParams(overrides: ParamOverrides = {}): MeltParams {
   const merged = { ...DEFAULT_PARAMS } as Record<ParamName, number>;
   for (const [k, v] of Object.entries(parsed.data)) if (v !== undefined) merged[k as ParamName] = v;
   const problems: string[] = [];
-  if (!(merged.B1 > merged.A1))
-    problems.push(`params.B1: ${merged.B1} degC must be above params.A1 (${merged.A1} degC): lherzolite liquidus above solidus`);
-  if (!(merged.C1 > merged.B1))
-    problems.push(`params.C1: ${merged.C1} degC must be above params.B1 (${merged.B1} degC): liquidus above lherzolite liquidus`);
+  const below = (upper: 'B' | 'C', lower: 'A' | 'B', what: string): void => {
+    const gap = lowestGap(merged, upper, lower, MODEL_MAX_P_GPA);
+    if (!(gap.gapC > 0)) {
+      const at = (k: 'A' | 'B' | 'C'): string => (merged[`${k}1`] + merged[`${k}2`] * gap.pGpa + merged[`${k}3`] * gap.pGpa ** 2).toFixed(1);
+      problems.push(
+        `params.${upper}1, ${upper}2, ${upper}3 with params.${lower}1, ${lower}2, ${lower}3: ${what} at P = ${gap.pGpa.toFixed(2)} GPa ` +
+          `(${at(upper)} vs ${at(lower)} degC); it must stay above it at every pressure the model covers, 0 to ${MODEL_MAX_P_GPA} GPa`,
+      );
+    }
+  };
+  below('B', 'A', 'the lherzolite liquidus B1 + B2 P + B3 P^2 is not above the solidus A1 + A2 P + A3 P^2');
+  below('C', 'B', 'the liquidus C1 + C2 P + C3 P^2 is not above the lherzolite liquidus B1 + B2 P + B3 P^2');
+  const rCpxLow = Math.min(merged.r1, merged.r1 + merged.r2 * MODEL_MAX_P_GPA);
+  if (!(rCpxLow > 0)) {
+    problems.push(
+      `params.r1, r2: the cpx reaction coefficient r1 + r2 P is ${rCpxLow.toPrecision(3)} at ${merged.r1 <= rCpxLow ? 0 : MODEL_MAX_P_GPA} GPa; ` +
+        `it must be positive at every pressure the model covers, 0 to ${MODEL_MAX_P_GPA} GPa`,
+    );
+  }
   if (problems.length > 0) throw new ParamError(problems);
   return Object.freeze(merged);
+}
+
+/**
+ * Smallest difference (degC) between two quadratic melting curves, upper minus lower, over
+ * [0, pMaxGpa] and where it occurs: at an end of the range or at the vertex of the difference.
+ */
+export function lowestGap(p: Readonly<Record<ParamName, number>>, upper: 'B' | 'C', lower: 'A' | 'B', pMaxGpa: number): { gapC: number; pGpa: number } {
+  const c0 = p[`${upper}1`] - p[`${lower}1`];
+  const c1 = p[`${upper}2`] - p[`${lower}2`];
+  const c2 = p[`${upper}3`] - p[`${lower}3`];
+  const gap = (x: number): number => c0 + c1 * x + c2 * x * x;
+  const candidates = [0, pMaxGpa];
+  if (c2 > 0) {
+    const vertex = -c1 / (2 * c2);
+    if (vertex > 0 && vertex < pMaxGpa) candidates.push(vertex);
+  }
+  let best = { gapC: gap(0), pGpa: 0 };
+  for (const x of candidates) if (gap(x) < best.gapC) best = { gapC: gap(x), pGpa: x };
+  return best;
 }

@@ -13,7 +13,7 @@ import { INPUT_NAMES, type InputName } from '../physics/fields.js';
 import { drySolidusC, lherzLiquidusC, wetSolidusC } from '../physics/melting.js';
 import { MODEL_MAX_P_GPA, type ColumnResult, type ModelOptions, type Scenario, type ThermalModel } from '../physics/types.js';
 import { depthKmFromPGpa, pGpaFromDepthKm, wtPctFromPpm } from '../physics/units.js';
-import { fieldInfo, formatNumber, inputValueLabel } from './labels.js';
+import { formatNumber, inputValueLabel, unitOf } from './labels.js';
 
 /** One scenario to draw, with an optional legend label (default: the inputs that differ between scenarios). */
 export interface DiagramScenario {
@@ -26,11 +26,15 @@ export interface PathPoint {
   readonly scenario: string;
   readonly depth_km: number;
   readonly t_c: number;
+  /** melt fraction at the point (melting path only) */
+  readonly f?: number;
 }
 
 /** A point of a reference curve (solidus or liquidus). */
 export interface CurvePoint {
   readonly curve: string;
+  /** piece of the curve inside the frame (a curve leaving and re-entering the frame has several) */
+  readonly part: number;
   readonly depth_km: number;
   readonly t_c: number;
 }
@@ -42,10 +46,12 @@ export interface MeltPoint {
   readonly f: number;
 }
 
-/** A horizontal band of one scenario: its lid or its melting interval. */
+/** A depth interval of one scenario: its lid or its melting interval. */
 export interface DepthBand {
   readonly kind: 'lid' | 'melting';
   readonly scenario: string;
+  /** position of the scenario in the diagram, 1-based (its lane and key number) */
+  readonly lane: number;
   readonly top_km: number;
   readonly bottom_km: number;
 }
@@ -64,8 +70,9 @@ export interface ColumnDiagramData {
   /** deepest depth shown, km */
   readonly depthMaxKm: number;
   /**
-   * temperature range shown, degC: the paths and the solidus curves with a margin. The liquidus and
-   * a conductive lid's cold top may leave the frame (they are clipped).
+   * temperature range shown, degC: every scenario's path (conductive profiles from the surface
+   * temperature down) and the solidus curves, with a margin. Reference curves are cut where they
+   * leave this range; scenario paths never do.
    */
   readonly temperatureRangeC: readonly [number, number];
   /** pressure at depthMaxKm, GPa */
@@ -75,6 +82,12 @@ export interface ColumnDiagramData {
   readonly conductive: readonly PathPoint[];
   /** onset of melting of each scenario that melts */
   readonly onsets: readonly PathPoint[];
+  /** where the melt fraction stops increasing (top of the melting path) of each scenario that melts */
+  readonly stops: readonly PathPoint[];
+  /** the inputs shared by every scenario (for titles), in input order */
+  readonly held: readonly { readonly name: InputName; readonly value: number }[];
+  /** water contents (ppm) of the wet solidus curves drawn */
+  readonly wetWaters: readonly number[];
   readonly curves: readonly CurvePoint[];
   /** reference curve names in drawing order */
   readonly curveNames: readonly string[];
@@ -94,7 +107,13 @@ export const LHERZ_LIQUIDUS = 'lherzolite liquidus';
 
 /** Name of the wet solidus of a source water content, with the unit from the registry. */
 export function wetSolidusName(waterPpm: number): string {
-  return `wet solidus, ${formatNumber(waterPpm)} ${fieldInfo('water_ppm').unit}`;
+  return `wet solidus, ${formatNumber(waterPpm)} ${unitOf('water_ppm')}`;
+}
+
+/** Inputs with the same value in every scenario (NaN upwelling counts as held only if all are given). */
+export function heldInputs(scenarios: readonly Scenario[]): { name: InputName; value: number }[] {
+  if (scenarios.length === 0) return [];
+  return INPUT_NAMES.filter((n) => Number.isFinite(scenarios[0][n]) && scenarios.every((s) => s[n] === scenarios[0][n])).map((n) => ({ name: n, value: scenarios[0][n] }));
 }
 
 /** Legend labels: the inputs that differ between scenarios (all of them for a single scenario). */
@@ -127,7 +146,10 @@ function depthRangeKm(results: readonly ColumnResult[], scenarios: readonly Scen
   return Math.min(maxKm, Math.ceil((deepest * 1.15 + 15) / 20) * 20);
 }
 
-/** Rounded range (degC) covering the scenario paths and the solidus curves (not the liquidus). */
+/**
+ * Rounded range (degC) covering every scenario path and the solidus curves (not the liquidus);
+ * a range reaching within 150 degC of 0 starts at 0 (a conductive profile starts at the surface).
+ */
 function temperatureRange(curves: readonly CurvePoint[], paths: readonly PathPoint[]): [number, number] {
   let lo = Infinity;
   let hi = -Infinity;
@@ -138,7 +160,46 @@ function temperatureRange(curves: readonly CurvePoint[], paths: readonly PathPoi
   }
   const deepestSolidus = curves.filter((c) => c.curve === DRY_SOLIDUS).reduce((m, c) => Math.max(m, c.t_c), -Infinity);
   hi = Math.max(hi, Math.min(deepestSolidus, hi + 150));
-  return [Math.floor((lo - 30) / 100) * 100, Math.ceil((hi + 30) / 100) * 100];
+  const low = lo >= 0 && lo < 150 ? 0 : Math.floor((lo - 30) / 100) * 100;
+  return [low, Math.ceil((hi + 30) / 100) * 100];
+}
+
+/**
+ * The pieces of a curve inside [tLo, tHi] x [0, zMax] (depth-ordered points), each cut exactly at
+ * the frame's edge by linear interpolation, so that nothing drawn leaves the frame.
+ */
+export function clipCurve(points: readonly { depth_km: number; t_c: number }[], tLo: number, tHi: number, zMax: number): { depth_km: number; t_c: number }[][] {
+  const inside = (q: { depth_km: number; t_c: number }): boolean => q.t_c >= tLo && q.t_c <= tHi && q.depth_km >= 0 && q.depth_km <= zMax;
+  const edge = (a: { depth_km: number; t_c: number }, b: { depth_km: number; t_c: number }): { depth_km: number; t_c: number } => {
+    // largest s in [0, 1] with a + s (b - a) inside, a inside
+    let s = 1;
+    const cut = (va: number, vb: number, limit: number): void => {
+      if (vb === va) return;
+      const t = (limit - va) / (vb - va);
+      if (t >= 0 && t < s) s = t;
+    };
+    if (b.t_c > tHi) cut(a.t_c, b.t_c, tHi);
+    if (b.t_c < tLo) cut(a.t_c, b.t_c, tLo);
+    if (b.depth_km > zMax) cut(a.depth_km, b.depth_km, zMax);
+    if (b.depth_km < 0) cut(a.depth_km, b.depth_km, 0);
+    return { depth_km: a.depth_km + s * (b.depth_km - a.depth_km), t_c: a.t_c + s * (b.t_c - a.t_c) };
+  };
+  const parts: { depth_km: number; t_c: number }[][] = [];
+  let cur: { depth_km: number; t_c: number }[] = [];
+  for (let i = 0; i < points.length; i++) {
+    const q = points[i];
+    const prev = i > 0 ? points[i - 1] : null;
+    if (inside(q)) {
+      if (cur.length === 0 && prev !== null) cur.push(edge(q, prev));
+      cur.push(q);
+    } else if (cur.length > 0 && prev !== null) {
+      cur.push(edge(prev, q));
+      parts.push(cur);
+      cur = [];
+    }
+  }
+  if (cur.length > 0) parts.push(cur);
+  return parts.filter((p) => p.length > 1);
 }
 
 /** Index (onset = 0) where the melt fraction first reaches its largest value along the path. */
@@ -172,22 +233,17 @@ export function columnDiagramData(items: readonly DiagramScenario[], model: Mode
   const depths = linspace(0, depthMaxKm, CURVE_POINTS);
   const pAt = (z: number): number => pGpaFromDepthKm(z, p.rho_s, p.g);
 
-  const curves: CurvePoint[] = [];
-  const curveNames: string[] = [DRY_SOLIDUS];
-  for (const z of depths) curves.push({ curve: DRY_SOLIDUS, depth_km: z, t_c: drySolidusC(pAt(z), p) });
+  const rawCurves: { name: string; points: { depth_km: number; t_c: number }[] }[] = [];
+  rawCurves.push({ name: DRY_SOLIDUS, points: depths.map((z) => ({ depth_km: z, t_c: drySolidusC(pAt(z), p) })) });
   const waters = [...new Set(items.map((i) => i.scenario.water_ppm).filter((w) => w > 0))].sort((a, b) => a - b);
-  for (const w of waters) {
-    const name = wetSolidusName(w);
-    curveNames.push(name);
-    for (const z of depths) curves.push({ curve: name, depth_km: z, t_c: wetSolidusC(pAt(z), wtPctFromPpm(w), p) });
-  }
-  curveNames.push(LHERZ_LIQUIDUS);
-  for (const z of depths) curves.push({ curve: LHERZ_LIQUIDUS, depth_km: z, t_c: lherzLiquidusC(pAt(z), p) });
+  for (const w of waters) rawCurves.push({ name: wetSolidusName(w), points: depths.map((z) => ({ depth_km: z, t_c: wetSolidusC(pAt(z), wtPctFromPpm(w), p) })) });
+  rawCurves.push({ name: LHERZ_LIQUIDUS, points: depths.map((z) => ({ depth_km: z, t_c: lherzLiquidusC(pAt(z), p) })) });
 
   const adiabat: PathPoint[] = [];
   const melting: PathPoint[] = [];
   const conductive: PathPoint[] = [];
   const onsets: PathPoint[] = [];
+  const stops: PathPoint[] = [];
   const meltFraction: MeltPoint[] = [];
   const bands: DepthBand[] = [];
   const notes: string[] = [];
@@ -196,10 +252,11 @@ export function columnDiagramData(items: readonly DiagramScenario[], model: Mode
   items.forEach((it, k) => {
     const s = it.scenario;
     const label = labels[k];
+    const lane = k + 1;
     const r = results[k];
     const thermal = resolveThermalModel(s, model);
     summaries.push({ label, scenario: s, thermal, result: r });
-    if (s.lid_km > 0) bands.push({ kind: 'lid', scenario: label, top_km: 0, bottom_km: Math.min(s.lid_km, depthMaxKm) });
+    if (s.lid_km > 0) bands.push({ kind: 'lid', scenario: label, lane, top_km: 0, bottom_km: Math.min(s.lid_km, depthMaxKm) });
     if (r.status === 'failed' || r.status === 'onset_beyond_range') notes.push(`${label}: ${r.status}${r.reason === null ? '' : ` (${r.reason})`}`);
 
     // solid adiabat: from the bottom of the diagram up to the onset (isentropic), or up to the lid
@@ -211,17 +268,13 @@ export function columnDiagramData(items: readonly DiagramScenario[], model: Mode
     if (thermal === 'conductive') {
       const out = conductiveProfile(s, model);
       if (out.kind === 'solved') {
+        // the whole profile: linear through the lid from the surface temperature, then the solved
+        // nodes, cut at the bottom of the diagram
         const st = out.state;
-        if (st.lidM > 0) {
-          for (const z of linspace(0, st.lidM / 1000, 11)) {
-            conductive.push({ scenario: label, depth_km: z, t_c: p.T_surface + ((st.tC[0] - p.T_surface) * z) / (st.lidM / 1000) });
-          }
-        }
-        for (let i = 0; i < st.zM.length; i++) {
-          const z = st.zM[i] / 1000;
-          conductive.push({ scenario: label, depth_km: z, t_c: st.tC[i] });
-          if (z > depthMaxKm) break;
-        }
+        const pts: { depth_km: number; t_c: number }[] = [];
+        if (st.lidM > 0) for (const z of linspace(0, st.lidM / 1000, 11)) pts.push({ depth_km: z, t_c: p.T_surface + ((st.tC[0] - p.T_surface) * z) / (st.lidM / 1000) });
+        for (let i = 0; i < st.zM.length; i++) if (pts.length === 0 || st.zM[i] / 1000 > pts[pts.length - 1].depth_km) pts.push({ depth_km: st.zM[i] / 1000, t_c: st.tC[i] });
+        for (const part of clipCurve(pts, -Infinity, Infinity, depthMaxKm)) for (const q of part) conductive.push({ scenario: label, ...q });
       }
     }
 
@@ -231,25 +284,36 @@ export function columnDiagramData(items: readonly DiagramScenario[], model: Mode
       // conductive profile shows (an isentropic path is drawn whole, to the lid base)
       const stop = thermal === 'conductive' ? meltStopIndex(prof.f) : prof.f.length - 1;
       for (let i = 0; i < prof.depth_km.length; i++) {
-        if (i <= stop) melting.push({ scenario: label, depth_km: prof.depth_km[i], t_c: prof.t_c[i] });
+        if (i <= stop) melting.push({ scenario: label, depth_km: prof.depth_km[i], t_c: prof.t_c[i], f: prof.f[i] });
         meltFraction.push({ scenario: label, depth_km: prof.depth_km[i], f: prof.f[i] });
       }
       onsets.push({ scenario: label, depth_km: prof.depth_km[0], t_c: prof.t_c[0] });
-      bands.push({ kind: 'melting', scenario: label, top_km: prof.depth_km[stop], bottom_km: prof.depth_km[0] });
+      stops.push({ scenario: label, depth_km: prof.depth_km[stop], t_c: prof.t_c[stop] });
+      bands.push({ kind: 'melting', scenario: label, lane, top_km: prof.depth_km[stop], bottom_km: prof.depth_km[0] });
     }
   });
 
+  const temperatureRangeC = temperatureRange(rawCurves.flatMap((c) => c.points.map((q) => ({ curve: c.name, part: 0, ...q }))), [...adiabat, ...melting, ...conductive]);
+  const curves: CurvePoint[] = [];
+  for (const c of rawCurves) {
+    clipCurve(c.points, temperatureRangeC[0], temperatureRangeC[1], depthMaxKm).forEach((part, k) => {
+      for (const q of part) curves.push({ curve: c.name, part: k, ...q });
+    });
+  }
   return {
     scenarios: summaries,
     depthMaxKm,
-    temperatureRangeC: temperatureRange(curves, [...adiabat, ...melting]),
+    temperatureRangeC,
     pressureMaxGpa: pAt(depthMaxKm),
     adiabat,
     melting,
     conductive,
     onsets,
+    stops,
+    held: heldInputs(items.map((i) => i.scenario)),
+    wetWaters: waters,
     curves,
-    curveNames,
+    curveNames: rawCurves.map((c) => c.name),
     meltFraction,
     bands,
     notes,

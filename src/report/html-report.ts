@@ -17,7 +17,10 @@ import { analyzeResultsFile } from '../run/sensitivity-file.js';
 import { columnDiagramSpec } from './column-diagram.js';
 import { columnDiagramData, scenarioLabels, type DiagramScenario } from './column-diagram-data.js';
 import { htmlFigure, htmlPage, escapeHtml } from './html.js';
-import { fieldInfo, formatNumber } from './labels.js';
+import { labelOf, valueWithUnit } from './labels.js';
+
+/** Words for the representative picks in legends. */
+const WHICH: Readonly<Record<string, string>> = { min: 'smallest', median: 'median', max: 'largest' };
 import { renderSvg, type PlotSpec } from './render.js';
 import { resolveReportOptions, type ReportOptions } from './report-options.js';
 import { metadataSection } from './report-metadata.js';
@@ -96,7 +99,7 @@ export async function buildHtmlReport(file: string, options: ReportOptions = {})
     notes.push(`this file is shard ${meta.shard} (rows ${meta.rowStart}-${meta.rowEnd} of ${meta.pointCount}): sensitivity needs the whole sweep, merge the shards first`);
   } else if (opts.outputs.length > 0 && spec.axes.length > 0) {
     report = await analyzeResultsFile(file, { outputs: opts.outputs, resamples: options.resamples, seed: options.seed });
-    analysisNotes.push(...report.notes);
+    analysisNotes.push(...report.warnings, ...report.notes);
     const logInputs = new Set<string>(spec.axes.filter((a) => a.scale === 'log').map((a) => a.name));
     for (const output of opts.outputs) {
       const bars = sensitivityBarsSpec(report.records, output, report.inputs);
@@ -124,14 +127,13 @@ export async function buildHtmlReport(file: string, options: ReportOptions = {})
         upwelling_mm_yr: table.inputs.upwelling_mm_yr[p.row],
       }));
       const auto = scenarioLabels(scenarios);
-      const unit = fieldInfo(repOutput).unit;
       const items: DiagramScenario[] = picks.map((p, k) => ({
         scenario: scenarios[k],
-        label: `${p.which} ${repOutput} ${formatNumber(table.outputs[repOutput][p.row])} ${unit}: ${auto[k]}`,
+        label: `${WHICH[p.which]} ${labelOf(repOutput)} ${valueWithUnit(repOutput, table.outputs[repOutput][p.row])}: ${auto[k]}`,
       }));
       const data = columnDiagramData(items, sweepModel(spec.model as DecompressionModelSpec, meta.params));
-      const plot = columnDiagramSpec(data, { title: `Representative columns`, subtitle: `smallest, median and largest ${repOutput} among ok rows` });
-      columns.push(await figure('column', repOutput, plot, `Temperature and melt fraction against depth for the ok rows with the smallest, median and largest ${repOutput}. Thin line: solid adiabat; thick: melting path; dashed: conductive profile; shaded: lid and melting interval.`));
+      const plot = columnDiagramSpec(data, { title: `Representative columns: smallest, median and largest ${labelOf(repOutput)}`, subtitle: `among the ok rows of ${spec.name}` });
+      columns.push(await figure('column', repOutput, plot, `Temperature and melt fraction against depth for the ok rows with the smallest, median and largest ${repOutput}. The key below the diagram explains the marks.`));
     } else {
       notes.push(`no ok row has a value of ${repOutput}: no representative columns`);
     }

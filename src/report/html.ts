@@ -61,15 +61,15 @@ table.kv thead { display: none; }
 code { font-family: 'DejaVu Sans Mono', Menlo, Consolas, monospace; font-size: 12.5px; }
 `;
 
-/** A whole page: title, inline style, body. */
-export function htmlPage(title: string, body: string): string {
+/** A whole page: title, inline style (the report's, plus `extraCss`), body. */
+export function htmlPage(title: string, body: string, extraCss = ''): string {
   return `<!DOCTYPE html>
 <html lang="en">
 <head>
 <meta charset="utf-8"/>
 <meta name="viewport" content="width=device-width, initial-scale=1"/>
 <title>${escapeHtml(title)}</title>
-<style>${REPORT_CSS}</style>
+<style>${REPORT_CSS}${extraCss}</style>
 </head>
 <body>
 <main>

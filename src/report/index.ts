@@ -25,5 +25,6 @@ export { resolveReportOptions, parseAtOption, DEFAULT_REPORT_OUTPUTS, type Repor
 export { readResultsColumns, readResultsInfo, type ResultsColumns, type ResultsFileInfo } from './results-columns.js';
 export { renderSvg, prefixSvgIds, type PlotSpec, type RenderedSvg, type RenderOptions } from './render.js';
 export { estimateTextWidth, installTextMetrics } from './text-metrics.js';
-export { axisTitle, axisTitleOf, compactTitleOf, fieldInfo, shortDescription } from './labels.js';
+export { axisTitle, axisTitleOf, displayLabel, displayUnit, fieldInfo, labelOf, unitOf, shortDescription } from './labels.js';
+export { FONT, FONT_FAMILY, fontFiles, textWidthPx, wrapText } from './font.js';
 export { plotConfig, CATEGORICAL, MEASURE_COLOURS, HEATMAP_SCHEME, MAX_DIAGRAM_SCENARIOS } from './theme.js';

@@ -1,7 +1,7 @@
 /**
  * Axis titles, legend titles and scenario labels for the pictures, all derived from the process
- * registry (src/process/; decompression's fields are in src/physics/fields.ts): a unit is never
- * typed here, it is looked up.
+ * registry (src/process/; decompression's fields are in src/physics/fields.ts): every field's
+ * display label and display unit ("°C", "km", "wt%", "" for fractions) are looked up, never typed here.
  */
 import { PROFILE_FIELDS, type FieldInfo } from '../physics/fields.js';
 import { allProcesses } from '../process/registry.js';
@@ -30,12 +30,30 @@ export function profileFieldInfo(name: (typeof PROFILE_FIELDS)[number]['name']):
  */
 export function shortDescription(info: FieldInfo): string {
   const cut = info.description.split(/,|;| \(/)[0].trim();
-  return cut.charAt(0).toUpperCase() + cut.slice(1);
+  return capitalise(cut);
 }
 
-/** An axis title with the unit from the registry: "Mantle potential temperature (degC)". */
+/** First letter upper case. */
+export function capitalise(text: string): string {
+  return text.charAt(0).toUpperCase() + text.slice(1);
+}
+
+/** The display label of a field ("potential temperature"); the short description where none is given. */
+export function displayLabel(info: FieldInfo): string {
+  return info.label ?? shortDescription(info).toLowerCase();
+}
+
+/** The unit as printed ("°C"; "" for fractions); the registry unit where no display unit is given. */
+export function displayUnit(info: FieldInfo): string {
+  if (info.displayUnit !== undefined) return info.displayUnit;
+  return info.unit === 'fraction' ? '' : info.unit.replace(/^degC/, '°C');
+}
+
+/** An axis title with the unit from the registry: "Potential temperature (°C)", "Melt fraction". */
 export function axisTitle(info: FieldInfo): string {
-  return info.unit === '' ? shortDescription(info) : `${shortDescription(info)} (${info.unit})`;
+  const unit = displayUnit(info);
+  const label = capitalise(displayLabel(info));
+  return unit === '' ? label : `${label} (${unit})`;
 }
 
 /** axisTitle of a registry field by name. */
@@ -43,10 +61,20 @@ export function axisTitleOf(name: string): string {
   return axisTitle(fieldInfo(name));
 }
 
-/** A compact axis title for small panels: the column name with its unit, "tp_c (degC)". */
-export function compactTitleOf(name: string): string {
-  const unit = fieldInfo(name).unit;
-  return unit === '' ? name : `${name} (${unit})`;
+/** The display label of a registry field by name ("crust thickness"). */
+export function labelOf(name: string): string {
+  return displayLabel(fieldInfo(name));
+}
+
+/** The display unit of a registry field by name ("km"; "" for fractions). */
+export function unitOf(name: string): string {
+  return displayUnit(fieldInfo(name));
+}
+
+/** A value with its display unit: "7 km", "0.12" (unit from the registry). */
+export function valueWithUnit(name: string, value: number): string {
+  const unit = unitOf(name);
+  return unit === '' ? formatNumber(value) : `${formatNumber(value)} ${unit}`;
 }
 
 /** Short names of the scenario inputs for legends (the trade's symbols; units come from the registry). */
@@ -57,7 +85,7 @@ const INPUT_SYMBOLS: Readonly<Record<string, string>> = {
   upwelling_mm_yr: 'upwelling',
 };
 
-/** A compact number for labels: up to 4 significant digits, no trailing zeros. */
+/** A compact number for labels: up to 4 significant digits, no trailing zeros, no thousands separator. */
 export function formatNumber(v: number): string {
   if (!Number.isFinite(v)) return String(v);
   if (v === 0) return '0';
@@ -66,14 +94,13 @@ export function formatNumber(v: number): string {
   return String(Number(v.toPrecision(4)));
 }
 
-/** "Tp 1350 degC" for one input value (unit from the registry). */
+/** "Tp 1350 °C" for one input value (unit from the registry). */
 export function inputValueLabel(name: string, value: number): string {
-  const unit = fieldInfo(name).unit;
+  const unit = unitOf(name);
   return `${INPUT_SYMBOLS[name] ?? name} ${formatNumber(value)}${unit === '' ? '' : ` ${unit}`}`;
 }
 
-/** "lid_km = 10 km" for a fixed value of a swept input (unit from the registry). */
+/** "lid thickness 10 km" for a fixed value of an input (label and unit from the registry). */
 export function fixedValueLabel(name: string, value: number): string {
-  const unit = fieldInfo(name).unit;
-  return `${name} = ${formatNumber(value)}${unit === '' ? '' : ` ${unit}`}`;
+  return `${labelOf(name)} ${valueWithUnit(name, value)}`;
 }

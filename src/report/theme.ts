@@ -6,6 +6,9 @@
  * (perceptually uniform, monotone in lightness, legible in greyscale).
  */
 import type { Config } from 'vega-lite';
+import { FONT } from './font.js';
+
+export { FONT };
 
 /** Text and line colours of the house style. */
 export const INK = '#1d2733';
@@ -17,6 +20,8 @@ export const PAPER = '#ffffff';
 export const REFERENCE = '#4a4f57';
 /** The conductive lid band. */
 export const LID_FILL = '#9aa3ad';
+/** A lid drawn as a bar (column diagram lanes). */
+export const LID_BAR = '#7d8791';
 /** Cells or bins without a value. */
 export const NO_VALUE_FILL = '#eef0f2';
 
@@ -32,8 +37,11 @@ export const MEASURE_COLOURS: Readonly<Record<'S1' | 'ST', string>> = { S1: '#00
 /** Sequential scheme of the heat maps. */
 export const HEATMAP_SCHEME = 'viridis';
 
-/** Font stack: a clean sans-serif that every system has a fallback for (nothing is downloaded). */
-export const FONT = "'Inter', 'Source Sans 3', 'Segoe UI', 'DejaVu Sans', 'Helvetica Neue', Arial, sans-serif";
+/**
+ * Number format of axis and legend labels: plain digits, no thousands separator ("1300", not
+ * "1,300"), trailing zeros dropped.
+ */
+export const NUMBER_FORMAT = '.6~r';
 
 /** The Vega-Lite configuration every picture is rendered with. */
 export function plotConfig(): Config {
@@ -65,6 +73,7 @@ export function plotConfig(): Config {
       gridColor: GRID,
       gridWidth: 1,
       labelPadding: 3,
+      format: NUMBER_FORMAT,
     },
     header: { labelColor: INK, labelFontSize: 11.5, labelFontWeight: 500, titleFontSize: 12 },
     legend: {

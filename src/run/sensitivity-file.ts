@@ -15,6 +15,13 @@ import { formatFromExtension } from '../io/output-format.js';
 import { readTableBatches, readTableSchema } from '../io/table-reader.js';
 import { TOOL_VERSION } from '../version.js';
 
+/**
+ * Statuses of rows that were not computed (every number null): left out of the analysis and counted.
+ * Every other row (ok, no_melt: crust 0, f_max 0) carries real values and is used; an output that is
+ * null in some of them (onset of a no_melt row) leaves those rows out for that output only.
+ */
+export const NOT_COMPUTED_STATUSES: ReadonlySet<string> = new Set(['failed', 'onset_beyond_range']);
+
 /** Beyond this many rows the automatic summary after a run is skipped (memory: 8 bytes per value). */
 export const AUTO_SUMMARY_MAX_ROWS = 4_000_000;
 
@@ -64,7 +71,7 @@ async function readColumns(file: string, inputNames: readonly string[], outputNa
     const status = batch.getChild('status')!;
     for (let i = 0; i < batch.numRows; i++) {
       const s = status.get(i) as string;
-      if (s === 'ok') include[offset + i] = 1;
+      if (!NOT_COMPUTED_STATUSES.has(s)) include[offset + i] = 1;
       else excludedReasons[s] = (excludedReasons[s] ?? 0) + 1;
     }
     offset += batch.numRows;
@@ -129,7 +136,9 @@ export function writeSensitivityTable(report: SensitivityReport, outPath: string
     ['meltsweep.version', TOOL_VERSION],
     ['meltsweep.design', report.design],
     ['meltsweep.counts', JSON.stringify(report.counts)],
-    ['meltsweep.notes', JSON.stringify(report.notes)],
+    ['meltsweep.notes', JSON.stringify([...report.notes, ...report.localNotes])],
+    ['meltsweep.warnings', JSON.stringify(report.warnings)],
+    ['meltsweep.copies', JSON.stringify(report.copies)],
     ['meltsweep.measures', 'S1 first-order index; ST total-effect index; elasticity_* d ln y / d ln x percentiles over the grid; slope_norm_* (dy/dx) sd(x)/sd(y) percentiles'],
     ...Object.entries(sourceMeta),
   ]);

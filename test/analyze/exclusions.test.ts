@@ -127,7 +127,10 @@ describe('saltelli rows left out', () => {
     expect(rec(r1, 'x2', 'ST').n).toBe(N - 2);
     expect(rec(r1, 'x3', 'ST').n).toBe(N - 3);
     expect(r1.counts.leftOut).toEqual({ failed: 5 });
-    expect(r1.notes).toContain('y: S1 and ST for x1 use 509 of 512 base samples (a base sample is dropped when its A, B or AB row is not usable).');
+    // base samples 3, 10, 20 and 30 are dropped for at least one input: 4 of 512, below the warning level
+    expect(r1.counts.perOutput.y.droppedBaseSamples).toBe(4);
+    expect(r1.notes).toContain('y: 4 of 512 base samples (0.8 %) are dropped because a row of their A, B or AB block has no value; the indices use the rest.');
+    expect(r1.warnings).toEqual([]);
 
     // the same estimate computed on the reduced base set directly (rows of every block renumbered)
     const keep = Array.from({ length: N }, (_, j) => j).filter((j) => j !== 3 && j !== 10 && j !== 20);
@@ -162,3 +165,30 @@ describe('left-out bookkeeping', () => {
     });
   });
 });
+
+describe('saltelli: dropped base samples above a few percent', () => {
+  const N = 256;
+  const names = ['x1', 'x2'];
+  const rnd = lcg(5);
+  const A = Float64Array.from({ length: N * 2 }, () => rnd());
+  const B = Float64Array.from({ length: N * 2 }, () => rnd());
+  // y has no value where x1 + x2 < 0.3 (like a column that does not melt): about 4.5 % of the rows
+  // and, through the A, B and AB blocks, a larger share of the base samples
+  const t = saltelliTable(A, B, N, names, (x) => (x[0] + x[1] < 0.3 ? NaN : x[0] + 2 * x[1]));
+
+  it('counts them and warns that the indices are biased, saying what to do', () => {
+    const r = analyzeSensitivity({ inputs: t.inputs, outputs: { y: t.y }, layout: { kind: 'saltelli', base: N, inputs: names } }, { resamples: 0 });
+    let expected = 0;
+    for (let j = 0; j < N; j++) {
+      const rows = [j, N + j, 2 * N + j, 3 * N + j];
+      if (rows.some((q) => Number.isNaN(t.y[q]))) expected++;
+    }
+    expect(expected).toBeGreaterThan(0.03 * N);
+    expect(r.counts.perOutput.y.droppedBaseSamples).toBe(expected);
+    expect(r.warnings).toHaveLength(1);
+    expect(r.warnings[0]).toContain(`y: ${expected} of ${N} base samples`);
+    expect(r.warnings[0]).toMatch(/biased/);
+    expect(r.warnings[0]).toMatch(/Narrow the swept ranges/);
+  });
+});
+

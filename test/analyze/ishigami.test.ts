@@ -124,7 +124,7 @@ describe('fine grid on Ishigami', () => {
   });
 
   it('says that elasticities skip non-positive points', () => {
-    expect(report.notes.some((n) => /elasticity left out at \d+ of \d+ points where x <= 0 or y <= 0/.test(n))).toBe(true);
+    expect(report.localNotes.some((n) => /elasticity left out at \d+ of \d+ points where x <= 0 or y <= 0/.test(n))).toBe(true);
   });
 });
 

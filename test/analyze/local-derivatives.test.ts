@@ -48,7 +48,7 @@ describe('elasticities of y = x1^2 exp(x2) on a grid', () => {
     expect(rec(r, 'x1', 'elasticity_median').n).toBe((26 - 2) * 39);
     expect(rec(r, 'x2', 'elasticity_median').n).toBe(26 * (39 - 2));
     expect(rec(r, 'x1', 'elasticity_p10').value!).toBeCloseTo(2, 10);
-    expect(r.notes.some((n) => n.includes('no derivative at 78 usable points'))).toBe(true);
+    expect(r.localNotes.some((n) => n.includes('no derivative at 78 usable points'))).toBe(true);
   });
 
   it('axis values listed in descending order give the same elasticities', () => {
@@ -81,7 +81,7 @@ describe('elasticities of y = x1^2 exp(x2) on a grid', () => {
     // x1 in {-1, -0.5, 0, 0.5, 1}: x1 <= 0 at 3 of 5 values, and y = 0 at x1 = 0 -> 6 of 10 points skipped
     expect(rec(r, 'x1', 'elasticity_median').n).toBe(4);
     expect(rec(r, 'x1', 'elasticity_median').value!).toBeCloseTo(2, 10);
-    expect(r.notes).toContain('y vs x1: elasticity left out at 6 of 10 points where x <= 0 or y <= 0.');
+    expect(r.localNotes).toContain('y vs x1: elasticity left out at 6 of 10 points where x <= 0 or y <= 0.');
     // along x2 every x2 > 0 but y = 0 on the x1 = 0 line (2 points)
     expect(rec(r, 'x2', 'elasticity_median').n).toBe(8);
   });

@@ -19,6 +19,7 @@ describe('library API', () => {
       'meltColumn', 'defaultModel', 'resolveParams', 'DEFAULT_PARAMS', 'PARAM_INFO', 'validateSweep', 'loadSweepFile', 'parseSweepText',
       'planSweep', 'runSweep', 'mergeShards', 'analyzeSensitivity', 'analyzeResultsFile', 'INPUT_FIELDS', 'RESULT_NUMERIC_FIELDS',
       'PROFILE_TABLE_FIELDS', 'readTableBatches', 'readTableSchema', 'inspectTable', 'InputError', 'RunError', 'TOOL_VERSION',
+      'fitTable', 'FitAccumulator', 'finishFit', 'fitResultsFile', 'parseObserveOption', 'refineAxes',
     ]) {
       expect(api, name).toHaveProperty(name);
     }

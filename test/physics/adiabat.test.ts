@@ -42,6 +42,9 @@ describe('solid adiabat', () => {
         const g = adiabatGradientKPerKm(tp, p, P);
         expect(g).toBeGreaterThanOrEqual(0.3);
         expect(g).toBeLessThan(1);
+        // the README's figure for this parameter set, from the analytic gradient alpha_s g T / c_P
+        expect(g).toBeGreaterThanOrEqual(0.6);
+        expect(g).toBeLessThanOrEqual(0.7);
       }
     }
   });

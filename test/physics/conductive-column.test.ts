@@ -70,14 +70,14 @@ describe('analytic limit: alpha = 0, no melting', () => {
     }
   }
 
-  it('1 mm/yr: the domain is capped at 8 GPa (~247 km) where T = T_m; the error stays below 1 K', () => {
+  it('1 mm/yr: the domain reaches 15 kappa/w (~473 km) below the lid, deeper than 8 GPa; the error stays below 1e-3 K', () => {
     const s = solved(scenario(tmC, 0, 0, 1), model);
     const wk = s.wMPerS / kappa;
     let maxErr = 0;
     for (let i = 0; i < s.zM.length; i++) maxErr = Math.max(maxErr, Math.abs(s.tC[i] - (tmC - tmC * Math.exp(-s.zM[i] * wk))));
-    // kappa/w = 31.6 km: the truncation is e^(-247/31.6) x 1000 K = 0.4 K
-    expect(s.zM[s.zM.length - 1] / 1000).toBeCloseTo(247.1, 0);
-    expect(maxErr).toBeLessThan(1);
+    // kappa/w = 31.6 km: 15 kappa/w = 473 km; the truncation is e^-15 x 1000 K = 3e-4 K
+    expect(s.zM[s.zM.length - 1] / 1000).toBeCloseTo(15 / wk / 1000, 3);
+    expect(maxErr).toBeLessThan(1e-3);
   });
 });
 
@@ -100,7 +100,9 @@ describe('fast upwelling gives back the isentropic column', () => {
       expect(rel(c.crust_km, iso.crust_km)).toBeLessThan(0.005);
       expect(rel(c.f_max, iso.f_max)).toBeLessThan(0.005);
       expect(rel(c.onset_p_gpa, iso.onset_p_gpa)).toBeLessThan(0.001);
-      expect(c.top_p_gpa).toBeCloseTo(iso.top_p_gpa ?? NaN, 12);
+      // melting stops a few boundary-layer thicknesses (kappa/w = 32 m) below the lid base
+      expect((c.top_p_gpa ?? NaN) - (iso.top_p_gpa ?? NaN)).toBeGreaterThanOrEqual(0);
+      expect((c.top_depth_km ?? NaN) - (iso.top_depth_km ?? NaN)).toBeLessThan(0.2);
     }
   });
 
@@ -150,6 +152,20 @@ describe('slow upwelling cuts melting back', () => {
       for (let k = 1; k < flux.length; k++) expect(flux[k]).toBeLessThan(flux[k - 1]);
     });
   }
+
+  it('taking w = half the full spreading rate, crust thins sharply below ~20 mm/yr full rate', () => {
+    // Bown & White 1994 (EPSL 121): crust thins sharply at ultraslow spreading, below ~20 mm/yr full
+    // rate. The 1D column takes the upwelling rate w; beneath a passive ridge axis w ~ half the full
+    // rate (the README's convention), so 20 mm/yr full is w = 10 mm/yr.
+    for (const lid of [0, 5]) {
+      const crust = (halfRate: number): number => conductiveColumn(scenario(1350, 0, lid, halfRate), MODEL).crust_km ?? NaN;
+      const fast = crust(1000);
+      expect(crust(10) / fast).toBeGreaterThan(0.85); // 20 mm/yr full: close to the fast-spreading value
+      expect(crust(2.5) / fast).toBeLessThan(0.5); // 5 mm/yr full: less than half of it
+      // the drop is concentrated below 20 mm/yr full
+      expect(crust(10) - crust(2.5)).toBeGreaterThan(3 * (fast - crust(10)));
+    }
+  });
 
   it('the depth where melting stops moves down as w slows; onset barely moves at fast rates', () => {
     const stop = [100, 10, 3].map((w) => {
@@ -264,12 +280,24 @@ describe('rows and failures', () => {
     expect(r.status).toBe('ok');
     expectNoNaN(r);
     expect(r.surface_heat_flow_mw_m2).toBeGreaterThan(0);
-    expect(r.top_depth_km).toBeCloseTo(15, 9);
     const pr = r.profile!;
     expect(pr.p_gpa[0]).toBeCloseTo(r.onset_p_gpa ?? NaN, 12);
     expect(pr.depth_km[pr.depth_km.length - 1]).toBeCloseTo(15, 9);
     expect(pr.f[pr.f.length - 1]).toBeCloseTo(r.f_max ?? NaN, 12);
     for (let k = 1; k < pr.f.length; k++) expect(pr.f[k]).toBeGreaterThanOrEqual(pr.f[k - 1]);
+    // at 5 mm/yr the lid cools the top of the column: melting stops well below the 15 km lid, where
+    // the path's F reaches its maximum; t_top_c is the temperature there
+    const top = r.top_depth_km ?? NaN;
+    expect(top).toBeGreaterThan(20);
+    const k = pr.depth_km.findIndex((d) => Math.abs(d - top) < 1e-9);
+    expect(k).toBeGreaterThan(0);
+    expect(pr.t_c[k]).toBe(r.t_top_c);
+    expect(pr.f[k]).toBe(r.f_max);
+    expect(pr.f[k - 1]).toBeLessThan(pr.f[k]);
+    for (let j = k; j < pr.f.length; j++) expect(pr.f[j]).toBe(r.f_max);
+    // f_mean over the melting interval; productivity = 100 F_top / (P_onset - P_top) over the same interval
+    expect(r.f_mean ?? NaN).toBeLessThan(r.f_max ?? NaN);
+    expect(r.productivity_pct_per_gpa).toBeCloseTo((100 * (r.f_max ?? NaN)) / ((r.onset_p_gpa ?? NaN) - (r.top_p_gpa ?? NaN)), 10);
   });
 
   it('is registered in the thermal-model table; auto picks it when there is an upwelling rate', () => {

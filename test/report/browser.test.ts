@@ -7,7 +7,9 @@ import fs from 'node:fs';
 import path from 'node:path';
 import { pathToFileURL } from 'node:url';
 import { chromium } from 'playwright-core';
+import { writeFitPage } from '../../src/report/fit-page.js';
 import { writeHtmlReport } from '../../src/report/html-report.js';
+import { fitResultsFile } from '../../src/run/fit-file.js';
 import { tmpDir } from '../helpers.js';
 import { gridSweepFile } from './helpers.js';
 
@@ -19,6 +21,39 @@ const dir = tmpDir('report-browser');
 afterAll(() => fs.rmSync(dir, { recursive: true, force: true }));
 
 describe.skipIf(skip)('report in a headless browser', () => {
+  it('opens the fit page: every panel has a size, no errors, no requests', async () => {
+    const results = await gridSweepFile(dir, 'fit-grid.arrow');
+    const fit = await fitResultsFile(results, { observations: [{ output: 'crust_km', value: 7.1, sd: 0.8 }], predict: ['f_max'] });
+    const page = path.join(dir, 'fit.html');
+    const built = await writeFitPage(fit, page);
+    const context = await chromium.launchPersistentContext(fs.mkdtempSync(path.join(dir, 'profile-')), { executablePath: CHROMIUM, headless: true, args: ARGS, viewport: { width: 1280, height: 900 } });
+    try {
+      const tab = await context.newPage();
+      const problems: string[] = [];
+      const requests: string[] = [];
+      tab.on('console', (m) => {
+        if (m.type() === 'error' || m.type() === 'warning') problems.push(`${m.type()}: ${m.text()}`);
+      });
+      tab.on('pageerror', (e) => problems.push(`page error: ${e.message}`));
+      tab.on('request', (r) => requests.push(r.url()));
+      await tab.goto(pathToFileURL(page).href, { waitUntil: 'load' });
+      const panels = await tab.$$eval('figure.plot', (figs) => figs.map((f) => [f.getAttribute('data-plot'), f.querySelector('svg')?.getBoundingClientRect().width ?? 0, f.querySelector('svg')?.getBoundingClientRect().height ?? 0]));
+      // three inputs, one pair matrix, crust_km and f_max
+      expect(panels.map((p) => p[0])).toEqual(['marginal', 'marginal', 'marginal', 'pairs', 'predictive', 'predictive']);
+      expect(panels).toHaveLength(built.plots.length);
+      for (const [, w, h] of panels) {
+        expect(w).toBeGreaterThan(100);
+        expect(h).toBeGreaterThan(100);
+      }
+      const sections = await tab.$$eval('section.card', (cards) => cards.map((c) => c.getAttribute('data-section')));
+      expect(sections).toEqual(['fit', 'marginals', 'pairs', 'predictive', 'summary', 'assumptions']);
+      expect(problems).toEqual([]);
+      expect(requests.filter((u) => !u.startsWith('file:') && !u.startsWith('data:'))).toEqual([]);
+    } finally {
+      await context.close();
+    }
+  });
+
   it('opens from a file URL without errors or requests, every plot has a size, the page is not blank', async () => {
     expect(CHROMIUM, 'chromium not found at /usr/bin/chromium (CI must install it: apt-get install chromium)').toBeDefined();
     const results = await gridSweepFile(dir);

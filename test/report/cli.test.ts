@@ -5,34 +5,43 @@ import { InputError } from '../../src/errors.js';
 import { plotColumnInputs } from '../../src/cli/commands/plot.js';
 import { readResultsInfo } from '../../src/report/results-columns.js';
 import { runCliSync, tmpDir } from '../helpers.js';
-import { gridSweepFile, markGroups, xmlProblem } from './helpers.js';
+import { gridSweepFile, xmlProblem } from './helpers.js';
 
 // These tests run the built CLI (dist/), as `npm test` builds it first.
 const dir = tmpDir('report-cli');
 afterAll(() => fs.rmSync(dir, { recursive: true, force: true }));
 
 describe('meltsweep plot column', () => {
-  it('writes an SVG with one melting path per scenario of the cartesian product', () => {
+  it('writes an outlined SVG of the cartesian product, and never replaces a file without --force', () => {
     const out = path.join(dir, 'column.svg');
-    const r = runCliSync(['plot', 'column', '--tp', '1300,1400', '--water', '0,150', '--lid', '8', '-o', out]);
+    const args = ['plot', 'column', '--tp', '1300,1400', '--water', '0,150', '--lid', '8', '--width', '120mm', '-o', out];
+    const r = runCliSync(args);
     expect(r.stderr).toBe('');
     expect(r.status).toBe(0);
     expect(r.stdout).toContain(`column diagram: ${out} (4 scenarios)`);
     const svg = fs.readFileSync(out, 'utf8');
     expect(xmlProblem(svg)).toBeNull();
-    expect(markGroups(svg, 'melting_path')).toBe(4);
-    expect(svg).toContain('>Tp 1400 degC, water 150 ppm</text>');
+    expect(svg).toMatch(/<svg[^>]*\swidth="120mm"/);
+    expect(svg).not.toContain('<text');
+    fs.writeFileSync(out, 'mine');
+    const again = runCliSync(args);
+    expect(again.status).toBe(2);
+    expect(again.stderr).toContain(`-o: ${out} already exists; give --force to replace it`);
+    expect(fs.readFileSync(out, 'utf8')).toBe('mine');
+    expect(runCliSync([...args, '--force']).status).toBe(0);
+    expect(fs.readFileSync(out, 'utf8')).not.toBe('mine');
   });
 
   it('refuses bad options with exit 2, naming the option, the value and what is allowed', () => {
-    const r = runCliSync(['plot', 'column', '--tp', '1300,abc', '--lid', '-5', '--mode', 'wet', '-o', path.join(dir, 'x.png')]);
+    const r = runCliSync(['plot', 'column', '--tp', '1300,abc', '--lid', '-5', '--mode', 'wet', '--dpi', '5', '-o', path.join(dir, 'x.jpg')]);
     expect(r.status).toBe(2);
     expect(r.stderr).toContain('--tp: "abc" is not a number; allowed 1100-1800 degC');
     expect(r.stderr).toContain("--lid: -5 is below the model's range 0-200 km");
     expect(r.stderr).toContain('--mode: "wet" is not allowed; choose one of batch, fractional');
     expect(r.stderr).toContain('-o: ');
-    expect(r.stderr).toContain('give a name ending in .svg');
-    expect(fs.existsSync(path.join(dir, 'x.png'))).toBe(false);
+    expect(r.stderr).toContain('give a file name ending in .svg, .png or .pdf');
+    expect(r.stderr).toContain('--dpi: "5" is not allowed');
+    expect(fs.existsSync(path.join(dir, 'x.jpg'))).toBe(false);
   });
 
   it('combines the lists as a cartesian product, at most 8 scenarios, and checks the model options', () => {

@@ -52,3 +52,94 @@ export async function saltelliSweepFile(dir: string, name = 'saltelli.arrow'): P
   await runSweep({ spec, outPath: out, workers: 2 });
   return out;
 }
+
+/** A drawn point that lies outside the frame of the view that draws it. */
+export interface OutsidePoint {
+  readonly mark: string;
+  readonly x: number;
+  readonly y: number;
+  readonly frame: readonly [number, number, number, number];
+}
+
+/** End points of every segment of an SVG path's d (absolute and relative M, L, H, V, C, Q, A, Z). */
+export function pathPoints(d: string): [number, number][] {
+  const out: [number, number][] = [];
+  const tokens = d.match(/[MLHVCSQTAZmlhvcsqtaz]|-?(?:\d+\.?\d*|\.\d+)(?:e[-+]?\d+)?/g) ?? [];
+  let x = 0;
+  let y = 0;
+  let sx = 0;
+  let sy = 0;
+  let cmd = 'M';
+  let i = 0;
+  const num = (): number => Number(tokens[i++]);
+  const arity: Record<string, number> = { M: 2, L: 2, H: 1, V: 1, C: 6, S: 4, Q: 4, T: 2, A: 7, Z: 0 };
+  while (i < tokens.length) {
+    if (/[A-Za-z]/.test(tokens[i])) cmd = tokens[i++];
+    const up = cmd.toUpperCase();
+    const rel = cmd !== up;
+    if (up === 'Z') {
+      [x, y] = [sx, sy];
+      continue;
+    }
+    const args = Array.from({ length: arity[up] }, num);
+    if (up === 'H') x = rel ? x + args[0] : args[0];
+    else if (up === 'V') y = rel ? y + args[0] : args[0];
+    else {
+      const nx = args[args.length - 2];
+      const ny = args[args.length - 1];
+      [x, y] = rel ? [x + nx, y + ny] : [nx, ny];
+    }
+    if (up === 'M') {
+      [sx, sy] = [x, y];
+      cmd = rel ? 'l' : 'L';
+    }
+    out.push([x, y]);
+  }
+  return out;
+}
+
+/**
+ * Points of the named marks (Vega-Lite layer names) that fall outside the plot area of the view
+ * drawing them, by more than `tolerance` px. Works on vega's SVG: every view is a group translated
+ * into place whose background path gives its size; a symbol (point) counts by its centre.
+ */
+export function pointsOutsideFrame(svg: string, marks: readonly string[], tolerance = 0.5): OutsidePoint[] {
+  const out: OutsidePoint[] = [];
+  const stack: { dx: number; dy: number; frame: [number, number, number, number] | null; mark: string | null }[] = [{ dx: 0, dy: 0, frame: null, mark: null }];
+  const top = () => stack[stack.length - 1];
+  let checked = 0;
+  for (const m of svg.matchAll(/<(\/?)(g|path)\b([^>]*?)(\/?)>/g)) {
+    const [, closing, tag, attrs, selfClosing] = m;
+    if (tag === 'g' && closing === '/') {
+      stack.pop();
+      continue;
+    }
+    const t = /transform="translate\((-?[0-9.e-]+),(-?[0-9.e-]+)\)"/.exec(attrs);
+    const dx = top().dx + (t === null ? 0 : Number(t[1]));
+    const dy = top().dy + (t === null ? 0 : Number(t[2]));
+    if (tag === 'g') {
+      if (selfClosing === '/') continue;
+      const markName = /role-mark ([A-Za-z0-9_]+)_marks/.exec(attrs)?.[1] ?? null;
+      stack.push({ dx, dy, frame: top().frame, mark: markName ?? top().mark });
+      continue;
+    }
+    const d = /\sd="([^"]*)"/.exec(attrs)?.[1] ?? '';
+    if (/class="background"/.test(attrs)) {
+      const size = /^M0,0h(-?[0-9.]+)v(-?[0-9.]+)/.exec(d);
+      if (size !== null && Number(size[1]) > 1 && Number(size[2]) > 1) top().frame = [top().dx, top().dy, top().dx + Number(size[1]), top().dy + Number(size[2])];
+      continue;
+    }
+    const mark = top().mark;
+    const frame = top().frame;
+    if (mark === null || !marks.includes(mark) || frame === null || selfClosing === undefined) continue;
+    const pts: [number, number][] = /role-mark|aria-roledescription="point"/.test(attrs) && t !== null ? [[0, 0]] : pathPoints(d);
+    for (const [px, py] of pts) {
+      checked++;
+      const x = dx + px;
+      const y = dy + py;
+      if (x < frame[0] - tolerance || x > frame[2] + tolerance || y < frame[1] - tolerance || y > frame[3] + tolerance) out.push({ mark, x, y, frame });
+    }
+  }
+  if (checked === 0) throw new Error(`no points of ${marks.join(', ')} found in the SVG`);
+  return out;
+}

@@ -43,15 +43,15 @@ describe('HTML report of a grid sweep', () => {
     expect(new Set(ids(html)).size).toBe(ids(html).length);
     // maps: the first two swept inputs, lid at its middle value; units from the registry
     const crustMap = figs.find((f) => f.kind === 'map' && f.output === 'crust_km')!.svg;
-    expect(axisTitles(crustMap)).toEqual(['Mantle potential temperature (degC)', 'Bulk water of the source (ppm)']);
-    expect(crustMap).toContain('slice at lid_km = 10 km');
+    expect(axisTitles(crustMap)).toEqual(['Potential temperature (°C)', 'Source water (ppm)']);
+    expect(crustMap).toContain('lid thickness 10 km');
     expect(markGroups(crustMap, 'map_cells')).toBe(1);
     expect(crustMap.split('aria-roledescription="rect mark"').length - 1).toBeGreaterThanOrEqual(15);
     // representative columns: min, median and max crust among ok rows, three paths
     const column = figs.find((f) => f.kind === 'column')!.svg;
     expect(markGroups(column, 'melting_path')).toBe(3);
-    expect(column).toMatch(/>min crust_km [0-9.]+ km: /);
-    expect(column).toMatch(/>max crust_km [0-9.]+ km: /);
+    expect(column).toMatch(/>smallest crust thickness [0-9.]+ km: /);
+    expect(column).toMatch(/>largest crust thickness [0-9.]+ km: /);
     // run metadata
     for (const text of ['ridge segment R-7 test grid', 'grid, 5 × 3 × 3', '<td>45</td>', '<td>ok</td>', '<td>M_cpx</td>', '<td>upwelling_mm_yr</td>']) expect(html).toContain(text);
   });
@@ -61,9 +61,9 @@ describe('HTML report of a grid sweep', () => {
     const figs = figures(report.html);
     expect(figs.filter((f) => f.kind === 'map')).toHaveLength(1);
     const map = figs.find((f) => f.kind === 'map')!.svg;
-    expect(axisTitles(map)).toEqual(['Thickness of the conductive lid (km)', 'Mantle potential temperature (degC)']);
-    expect(map).toContain('slice at water_ppm = 100 ppm');
-    expect(figs.find((f) => f.kind === 'column')!.svg).toContain('f_max');
+    expect(axisTitles(map)).toEqual(['Lid thickness (km)', 'Potential temperature (°C)']);
+    expect(map).toContain('source water 100 ppm');
+    expect(figs.find((f) => f.kind === 'column')!.svg).toContain('largest melt fraction');
   });
 
   it('refuses bad options with the option, the value and what is allowed', async () => {

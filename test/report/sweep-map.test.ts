@@ -81,7 +81,7 @@ describe('sweep maps', () => {
     expect(markGroups(r.svg, 'map_cells')).toBe(1);
     expect(markGroups(r.svg, 'no_value_cells')).toBe(1);
     expect(r.svg.split('aria-roledescription="rect mark"').length - 1).toBeGreaterThanOrEqual(6);
-    expect(axisTitles(r.svg)).toEqual(['Mantle potential temperature (degC)', 'Bulk water of the source (ppm)']);
+    expect(axisTitles(r.svg)).toEqual(['Potential temperature (°C)', 'Source water (ppm)']);
     expect(r.svg).toContain('crust_km');
   });
 
@@ -125,6 +125,6 @@ describe('sensitivity pictures', () => {
     const r = await renderSvg(mainEffectsSpec(curves, 'crust_km')!);
     expect(xmlProblem(r.svg)).toBeNull();
     expect(markGroups(r.svg, 'main_effect_line_0') + markGroups(r.svg, 'main_effect_line_1')).toBe(2);
-    expect(axisTitles(r.svg)).toEqual(expect.arrayContaining(['tp_c (degC)', 'water_ppm (ppm)', 'crust_km (km)']));
+    expect(axisTitles(r.svg)).toEqual(expect.arrayContaining(['Potential temperature (°C)', 'Source water (ppm)', 'Crust thickness (km)']));
   });
 });

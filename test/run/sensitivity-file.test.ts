@@ -34,6 +34,27 @@ describe('sensitivity of a real melting sweep', () => {
     expect(t.schema.fields.map((f) => f.name)).toEqual(['output', 'input', 'measure', 'value', 'ci_low', 'ci_high', 'n']);
   });
 
+  it('uses no_melt rows (crust 0, f_max 0 are real values): every row counts for crust_km, only melting rows for the onset', async () => {
+    // Tp 1100 degC is below the dry solidus at every depth (A1 = 1085.7 degC and the solidus rises
+    // faster than the adiabat): the sweep crosses from no melt to melt
+    const spec = validateSweep({
+      name: 'ridge R-9 solidus crossing',
+      axes: { tp_c: { from: 1100, to: 1400, count: 7 }, lid_km: { from: 0, to: 20, count: 3 } },
+      design: { kind: 'grid' },
+      model: { thermal: 'isentropic' },
+    });
+    const out = path.join(dir, 'cross.arrow');
+    const run = await runSweep({ spec, outPath: out, workers: 1 });
+    expect(run.counts.no_melt).toBeGreaterThan(0);
+    const report = await analyzeResultsFile(out, { outputs: ['crust_km', 'onset_p_gpa', 'onset_depth_km'] });
+    expect(report.counts.included).toBe(21);
+    expect(report.counts.leftOut).toEqual({});
+    expect(report.counts.perOutput.crust_km.used).toBe(21);
+    expect(report.counts.perOutput.onset_p_gpa.used).toBe(21 - run.counts.no_melt);
+    // the onset depth is the onset pressure in other units: one line in the summary
+    expect(report.copies.onset_depth_km?.of).toBe('onset_p_gpa');
+  });
+
   it('refuses a shard: sensitivity needs the whole sweep', async () => {
     const spec = validateSweep({ name: 's', axes: { tp_c: { from: 1300, to: 1400, count: 8 } }, design: { kind: 'grid' } });
     const out = path.join(dir, 'shard.arrow');

@@ -9,6 +9,7 @@ import { registerSensitivity } from './sensitivity.js';
 import { registerPlot } from './plot.js';
 import { registerReport } from './report.js';
 import { registerInspect } from './inspect.js';
+import { registerFit } from './fit.js';
 
 /** Every command, in the order `meltsweep --help` lists them. */
 export function registerCommands(program: Command): void {
@@ -19,6 +20,7 @@ export function registerCommands(program: Command): void {
   registerSubmit(program);
   registerColumn(program);
   registerSensitivity(program);
+  registerFit(program);
   registerPlot(program);
   registerReport(program);
   registerInspect(program);

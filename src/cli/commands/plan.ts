@@ -6,6 +6,12 @@ import { estimateRun, formatBytes } from '../../run/estimate.js';
 import { formatDuration } from '../../run/progress.js';
 import { parseWorkers } from '../options.js';
 
+/** A rate with 2 significant digits: 1,600 or 47 or 0.52. */
+function formatRate(v: number): string {
+  if (!Number.isFinite(v)) return 'more than 1e6';
+  return Number(v.toPrecision(2)).toLocaleString('en-US');
+}
+
 export function registerPlan(program: Command): void {
   program
     .command('plan')
@@ -22,11 +28,13 @@ export function registerPlan(program: Command): void {
       const rows = range.end - range.start;
       const lines = [...describePlan(spec, plan), `sweep hash: ${sweepHash(spec)}`];
       if (shard) lines.push(`shard ${shard.k}/${shard.n}: rows ${range.start}-${range.end} (${rows.toLocaleString('en-US')} rows)`);
-      const est = estimateRun(spec, rows, workers);
+      const est = estimateRun(spec, rows, workers, { range });
       lines.push(
-        `calibration: ${est.calibrationColumns} columns on this machine, ${Math.round(est.columnsPerSecondPerCore).toLocaleString('en-US')} columns/s per core`,
-        `estimated time: ${formatDuration(est.seconds)} with ${workers} worker${workers === 1 ? '' : 's'}`,
-        `estimated output: ${formatBytes(est.bytes)} (${est.bytesPerRow.toFixed(0)} bytes per row)`,
+        `timing probe: ${est.calibrationColumns} columns of this sweep computed here, ${formatRate(est.columnsPerSecondPerCore)} columns per CPU second ` +
+          `(this sweep's mix of columns; the README's figures are for fixed reference columns)`,
+        `estimated time: ${formatDuration(est.seconds)} with ${workers} worker${workers === 1 ? '' : 's'} on an idle machine ` +
+          `(${formatDuration(est.cpuSeconds)} of CPU time; slower when the cores are shared)`,
+        `estimated output: ${formatBytes(est.bytes)} as Arrow IPC (${est.bytesPerRow.toFixed(0)} bytes per row)`,
       );
       process.stdout.write(`${lines.join('\n')}\n`);
     });

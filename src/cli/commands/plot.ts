@@ -1,13 +1,11 @@
 /**
- * `meltsweep plot column`: the column diagram of one or more scenarios as an SVG file. Parse,
- * call, write: the pictures are src/report, the ranges come from INPUT_RANGES.
+ * `meltsweep plot column`: the column diagram of one or more scenarios as an SVG, PNG or PDF file.
+ * Parse, call, write: the pictures are src/report, the ranges come from INPUT_RANGES.
  *
  * Lists combine as a cartesian product, in option order (--tp outermost, --upwelling fastest):
  * `--tp 1300,1400 --water 0,200` draws four scenarios. At most MAX_DIAGRAM_SCENARIOS (8).
  */
 import type { Command } from 'commander';
-import path from 'node:path';
-import fs from 'node:fs';
 import { InputError } from '../../errors.js';
 import { writeFileAtomic } from '../../io/ipc-file.js';
 import { defaultModel } from '../../physics/column.js';
@@ -15,6 +13,7 @@ import type { InputName } from '../../physics/fields.js';
 import { checkRangeValue, formatRange, INPUT_RANGES, STEP_GPA_RANGE, type InputRange } from '../../physics/ranges.js';
 import type { ModelOptions, Scenario, ThermalModel, WaterMode } from '../../physics/types.js';
 import { MAX_DIAGRAM_SCENARIOS } from '../../report/theme.js';
+import { addFigureSizeOptions, checkOutputFile, figureOutput } from '../figure-output.js';
 
 const WATER_MODES: readonly WaterMode[] = ['batch', 'fractional'];
 const THERMAL_CHOICES: readonly (ThermalModel | 'auto')[] = ['auto', 'isentropic', 'conductive'];
@@ -29,6 +28,9 @@ interface PlotColumnOptions {
   step: string;
   title?: string;
   output: string;
+  width?: string;
+  dpi?: string;
+  force?: boolean;
 }
 
 /** Parse a comma-separated list of numbers, each inside `range`. @throws InputError naming option and value */
@@ -93,23 +95,17 @@ export function plotColumnInputs(o: PlotColumnOptions): { scenarios: Scenario[];
       `--tp, --water, --lid, --upwelling: the lists combine into ${tps.length} x ${waters.length} x ${lids.length} x ${ups.length} = ${count} scenarios; one diagram draws at most ${MAX_DIAGRAM_SCENARIOS}`,
     );
   }
-  if (!/\.svg$/i.test(o.output)) problems.push(`-o: ${JSON.stringify(o.output)} is not allowed; the column diagram is an SVG file: give a name ending in .svg`);
+  attempt(() => figureOutput(o), null);
   if (problems.length > 0) throw new InputError(problems);
   const scenarios: Scenario[] = [];
   for (const tp_c of tps) for (const water_ppm of waters) for (const lid_km of lids) for (const upwelling_mm_yr of ups) scenarios.push({ tp_c, water_ppm, lid_km, upwelling_mm_yr });
   return { scenarios, model: defaultModel({ thermal, water: mode, stepGpa: step }) };
 }
 
-/** Check that a file can be written in its folder. @throws InputError naming the option */
-export function checkOutputFolder(option: string, file: string): void {
-  const dir = path.dirname(path.resolve(file));
-  if (!fs.existsSync(dir) || !fs.statSync(dir).isDirectory()) throw new InputError(`${option}: folder ${dir} does not exist`);
-}
-
 /** Register `meltsweep plot` and its `column` subcommand. */
 export function registerPlot(program: Command): void {
-  const plot = program.command('plot').description('draw pictures as SVG files (see also: meltsweep report)');
-  plot
+  const plot = program.command('plot').description('draw pictures as SVG, PNG or PDF files (see also: meltsweep report)');
+  const column = plot
     .command('column')
     .description(
       'temperature and melt fraction against depth for one or more scenarios, with the solidus and liquidus curves; ' +
@@ -123,15 +119,16 @@ export function registerPlot(program: Command): void {
     .option('--mode <mode>', `water mode: ${WATER_MODES.join(' or ')}`, 'batch')
     .option('--step <GPa>', `isentropic pressure step (${formatRange(STEP_GPA_RANGE)})`, '0.05')
     .option('--title <text>', 'title above the diagram (default "Melting column")')
-    .requiredOption('-o, --output <file.svg>', 'the SVG file to write')
-    .action(async (o: PlotColumnOptions) => {
-      const { scenarios, model } = plotColumnInputs(o);
-      checkOutputFolder('-o', o.output);
-      // the plotting libraries load only when a picture is drawn (they add ~0.3 s to start-up)
-      const { renderColumnDiagram } = await import('../../report/column-diagram.js');
-      const r = await renderColumnDiagram(scenarios.map((scenario) => ({ scenario })), model, { title: o.title });
-      writeFileAtomic(o.output, r.svg);
-      process.stdout.write(`column diagram: ${o.output} (${scenarios.length} scenario${scenarios.length === 1 ? '' : 's'})\n`);
-      for (const note of r.data.notes) process.stderr.write(`note: ${note}\n`);
-    });
+    .requiredOption('-o, --output <file>', 'the file to write: .svg, .png or .pdf (text as outlines of the bundled font)');
+  addFigureSizeOptions(column).action(async (o: PlotColumnOptions) => {
+    const { scenarios, model } = plotColumnInputs(o);
+    const { format, size } = figureOutput(o);
+    checkOutputFile('-o', o.output, o.force);
+    // the plotting libraries load only when a picture is drawn (they add ~0.3 s to start-up)
+    const [{ renderColumnDiagram }, { exportFigure, layoutWidthFor }] = await Promise.all([import('../../report/column-diagram.js'), import('../../report/export.js')]);
+    const r = await renderColumnDiagram(scenarios.map((scenario) => ({ scenario })), model, { title: o.title, targetWidth: layoutWidthFor(size) });
+    writeFileAtomic(o.output, await exportFigure(r.svg, format, size, o.title ?? 'column diagram'));
+    process.stdout.write(`column diagram: ${o.output} (${scenarios.length} scenario${scenarios.length === 1 ? '' : 's'})\n`);
+    for (const note of r.data.notes) process.stderr.write(`note: ${note}\n`);
+  });
 }
