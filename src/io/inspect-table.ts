@@ -69,6 +69,7 @@ function aboutTable(md: ReadonlyMap<string, string>): Array<[string, string]> {
   }
   const show: Array<[string, string]> = [
     ['design', 'meltsweep.design'],
+    ['process', META.process],
     ['points in sweep', META.pointCount],
     ['row range', META.rowRange],
     ['shard', META.shard],

@@ -68,6 +68,12 @@ export interface RunOptions {
   readonly profiles?: ProfileGrid;
   /** writer settings (Parquet compression, row group size) */
   readonly writer?: TableSinkOptions;
+  /**
+   * Modules (paths or file URLs) of processes that are not built in, default export = the
+   * ProcessDefinition: every worker thread registers them before computing. The caller registers
+   * them in its own thread with registerProcess (src/process/registry.ts) before validating.
+   */
+  readonly processModules?: readonly string[];
 }
 
 export interface RunSummary {
@@ -213,7 +219,8 @@ export async function runSweep(opts: RunOptions): Promise<RunSummary> {
 
   const runChunk = async (idx: number): Promise<ChunkResult> => {
     const [s, e] = chunks[idx];
-    const task: ChunkTask = opts.profiles ? { specKey, spec, start: s, end: e, profiles: opts.profiles } : { specKey, spec, start: s, end: e };
+    const base: ChunkTask = opts.profiles ? { specKey, spec, start: s, end: e, profiles: opts.profiles } : { specKey, spec, start: s, end: e };
+    const task: ChunkTask = opts.processModules === undefined ? base : { ...base, processModules: opts.processModules };
     try {
       return await pool!.run(task);
     } catch (first) {
