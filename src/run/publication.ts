@@ -1,9 +1,13 @@
 /**
  * The final table(s) of a run, written while the run goes on: every committed segment is also
  * appended to the output under its temporary name, so finishing a run only writes the footer and
- * renames (no serial re-read of the whole table at the end). A resumed run first replays the
- * segments committed by earlier processes. Interrupted or failed runs abandon the temporary file;
- * the segments stay the source of truth.
+ * renames (no serial re-read of the whole table at the end). A resumed run replays the
+ * segments committed by earlier processes in their place. Interrupted or failed runs abandon the
+ * temporary file; the segments stay the source of truth.
+ *
+ * Exact cover: every batch must continue the scenario ids where the previous one stopped, and
+ * publish() refuses unless the rows cover the run's range exactly once, so a table with a row
+ * missing or repeated is never published.
  */
 import * as arrow from 'apache-arrow';
 import { RunError } from '../errors.js';
@@ -11,7 +15,7 @@ import { COLUMN_STATUSES, type ColumnStatus } from '../physics/types.js';
 import { withSharedDictionary } from '../io/arrow-batch.js';
 import { readIpcBatches } from '../io/ipc-file.js';
 import type { OutputFormat } from '../io/output-format.js';
-import type { SegmentStore } from '../io/segment-store.js';
+import type { Segment } from '../io/segment-store.js';
 import { openTableSink, type TableSink, type TableSinkOptions } from '../io/table-sink.js';
 
 export function emptyCounts(): Record<ColumnStatus, number> {
@@ -35,19 +39,46 @@ export interface PublicationTarget {
   readonly schema: arrow.Schema;
 }
 
+/**
+ * Check that `batch` holds scenario ids next, next+1, ... and return the id after its last row.
+ * @throws RunError naming the first row out of place
+ */
+export function checkScenarioIds(batch: arrow.RecordBatch, next: number, where: string): number {
+  const col = batch.getChild('scenario_id');
+  if (col === null) throw new RunError(`${where}: the rows carry no scenario_id`);
+  let expected = next;
+  for (const data of col.data) {
+    const values = data.values as BigInt64Array;
+    for (let i = 0; i < data.length; i++) {
+      const id = Number(values[data.offset + i]);
+      if (id !== expected) {
+        throw new RunError(`${where}: row of scenario ${id} found where scenario ${expected} belongs (rows missing, repeated or out of order)`);
+      }
+      expected++;
+    }
+  }
+  return expected;
+}
+
 export class Publication {
   readonly counts = emptyCounts();
+  /** the scenario id the next batch must start with */
+  private nextRow: number;
 
   private constructor(
+    private readonly range: { readonly start: number; readonly end: number },
     private readonly results: TableSink,
     private readonly resultsSchema: arrow.Schema,
     private readonly dictionary: arrow.Vector<arrow.Utf8>,
     private readonly profiles: { readonly sink: TableSink; readonly schema: arrow.Schema } | null,
     private readonly partialDir: string,
-  ) {}
+  ) {
+    this.nextRow = range.start;
+  }
 
   /** Open the sinks (temporary names) for the results table and, optionally, the profile table. */
   static async open(
+    range: { readonly start: number; readonly end: number },
     format: OutputFormat,
     results: PublicationTarget,
     dictionary: arrow.Vector<arrow.Utf8>,
@@ -64,43 +95,46 @@ export class Publication {
       throw err;
     }
     return new Publication(
-      sink, results.schema, dictionary,
+      range, sink, results.schema, dictionary,
       profileSink === null || profiles === null ? null : { sink: profileSink, schema: profiles.schema },
       partialDir,
     );
   }
 
   private fail(err: unknown): RunError {
+    if (err instanceof RunError) return err;
     const why = err instanceof Error ? err.message : String(err);
-    return new RunError(`cannot write ${this.results.tmpPath}: ${why}. Every committed row is kept in ${this.partialDir}; fix the problem and rerun the same command with --resume.`);
+    // the sinks already name the file they could not write
+    const what = why.startsWith('cannot write') ? why : `cannot write ${this.results.tmpPath}: ${why}`;
+    return new RunError(`${what}. Every committed row is kept in ${this.partialDir}; fix the problem and rerun the same command with --resume.`);
   }
 
   /** Append the batches of one committed segment (built with the shared dictionary). */
   async append(batches: readonly arrow.RecordBatch[], profileBatches: readonly arrow.RecordBatch[] | null): Promise<void> {
     try {
       if (this.profiles !== null && profileBatches !== null) for (const b of profileBatches) await this.profiles.sink.write(b);
-      for (const b of batches) {
-        countStatuses(b, this.counts);
-        await this.results.write(b);
-      }
+      for (const b of batches) await this.writeResults(b, 'computed rows');
     } catch (err) {
       throw this.fail(err);
     }
   }
 
-  /** Feed the segments an earlier process committed (resume), one batch at a time. */
-  async replay(store: SegmentStore): Promise<void> {
+  private async writeResults(b: arrow.RecordBatch, where: string): Promise<void> {
+    this.nextRow = checkScenarioIds(b, this.nextRow, where);
+    countStatuses(b, this.counts);
+    await this.results.write(b);
+  }
+
+  /** Feed one segment an earlier process committed (resume), one batch at a time. */
+  async replay(seg: Segment): Promise<void> {
     try {
-      for (const seg of store.segments()) {
-        if (this.profiles !== null) {
-          for await (const b of readIpcBatches(seg.profileFile)) await this.profiles.sink.write(new arrow.RecordBatch(this.profiles.schema, b.data));
-        }
-        for await (const b of readIpcBatches(seg.file)) {
-          const rebuilt = withSharedDictionary(b, this.resultsSchema, this.dictionary);
-          countStatuses(rebuilt, this.counts);
-          await this.results.write(rebuilt);
-        }
+      if (this.profiles !== null) {
+        for await (const b of readIpcBatches(seg.profileFile)) await this.profiles.sink.write(new arrow.RecordBatch(this.profiles.schema, b.data));
       }
+      for await (const b of readIpcBatches(seg.file)) {
+        await this.writeResults(withSharedDictionary(b, this.resultsSchema, this.dictionary), `segment ${seg.file}`);
+      }
+      if (this.nextRow !== seg.end) throw new RunError(`segment ${seg.file}: holds rows up to ${this.nextRow}, its name says ${seg.end}`);
     } catch (err) {
       throw this.fail(err);
     }
@@ -108,6 +142,13 @@ export class Publication {
 
   /** Finish both files; the profile table first, so a published results table means a complete run. */
   async publish(): Promise<void> {
+    if (this.nextRow !== this.range.end) {
+      await this.abort();
+      throw new RunError(
+        `refusing to publish ${this.results.finalPath}: it would hold rows ${this.range.start}-${this.nextRow} of ${this.range.start}-${this.range.end}. ` +
+          `Every committed row is kept in ${this.partialDir}; rerun the same command with --resume.`,
+      );
+    }
     try {
       if (this.profiles !== null) await this.profiles.sink.publish();
       await this.results.publish();

@@ -1,39 +1,29 @@
 /**
- * Run a sweep: split the index range into chunks, integrate them on a piscina pool, write
- * the results in scenario order into committed segments, and publish one table (Arrow IPC,
- * Parquet or CSV; with a profile grid, a second table of profiles).
+ * Run a sweep: the named steps are
+ *   1. prepareRun      resolve settings, check the output (nothing on disk changes);
+ *   2. lockOutput      one writer per output (OUT.lock);
+ *   3. openPartialRun  the resume policy: verify an earlier partial run or start a new one;
+ *   4. Publication     open the final table(s) under temporary names;
+ *   5. computeRows     stream the missing chunks through the pool, commit segments, replay kept ones;
+ *   6. publish         check the rows cover the range exactly once, then rename.
  *
  * Memory is bounded by the in-flight window (finished chunks wait in a small reorder buffer;
- * no new chunk is submitted while the window is full) and by the segment size.
+ * no new chunk is submitted while the window is full) and by the segment size, whatever the
+ * point count (chunks are made as they are submitted).
  */
-import * as arrow from 'apache-arrow';
-import fs from 'node:fs';
-import os from 'node:os';
-import path from 'node:path';
-import { pathToFileURL } from 'node:url';
-import { Piscina } from 'piscina';
-import { InputError, RunError } from '../errors.js';
 import type { ColumnStatus } from '../physics/types.js';
-import { resolveParams } from '../physics/params.js';
-import { planSweep, shardRange } from '../plan/index.js';
-import { sweepHash } from '../spec/index.js';
 import type { SweepSpec } from '../spec/types.js';
-import { TOOL_VERSION } from '../version.js';
-import { chunkToRecordBatch } from '../io/arrow-batch.js';
-import { makeStatusDictionary, resultsSchema, tableFieldsOf, type ResultsTableMeta } from '../io/arrow-schema.js';
-import { profilesPathFor, resolveOutputFormat, type OutputFormat } from '../io/output-format.js';
-import { profileAxis, profileChunkToRecordBatch, profilesSchema } from '../io/profile-table.js';
-import { partialDirFor, SegmentStore, type PartialManifest } from '../io/segment-store.js';
+import type { OutputFormat } from '../io/output-format.js';
 import { readTableBatches } from '../io/table-reader.js';
-import { publishedFiles, type TableSinkOptions } from '../io/table-sink.js';
-import { failedChunk, makeChunkContext, type ChunkResult } from './compute-chunk.js';
-import { countStatuses, emptyCounts, Publication } from './publication.js';
-import { defaultChunkSize } from './chunks.js';
-import { formatProfileGrid, profileGridPressures, type ProfileGrid } from './profile-grid.js';
+import type { TableSinkOptions } from '../io/table-sink.js';
+import { computeRows } from './chunk-pipeline.js';
+import { lockOutput } from './output-lock.js';
+import type { ProfileGrid } from './profile-grid.js';
 import type { ProgressSink } from './progress.js';
-import type { ChunkTask } from './task.js';
-import { sweepWorkerFile } from './worker-file.js';
-import { checkOutput, existingOutputMatches, removeStaleTemporaries } from './output-guard.js';
+import { countStatuses, emptyCounts, Publication } from './publication.js';
+import { openPartialRun, prepareRun, type RepairedSegment, type RunSetup } from './run-setup.js';
+
+export type { RepairedSegment } from './run-setup.js';
 
 export interface ShardSelection {
   /** 1-based shard number */
@@ -44,8 +34,12 @@ export interface ShardSelection {
 export interface RunOptions {
   readonly spec: SweepSpec;
   readonly outPath: string;
-  /** worker threads (default: all available cores) */
+  /** worker threads (default: all available cores; capped at the available cores unless oversubscribe) */
   readonly workers?: number;
+  /** allow more worker threads than available cores */
+  readonly oversubscribe?: boolean;
+  /** the sweep file the spec was read from: refused as the output, even with force */
+  readonly sweepPath?: string;
   /** continue a partial run of the same sweep */
   readonly resume?: boolean;
   /** replace an existing output file and discard a partial run */
@@ -97,260 +91,77 @@ export interface RunSummary {
   readonly format: OutputFormat;
   /** the profile table, when the run writes one */
   readonly profilesPath: string | null;
+  /** committed segments of an earlier process that failed verification; their rows were computed again */
+  readonly repairedSegments: readonly RepairedSegment[];
 }
 
 /**
  * Run (or resume) a sweep and publish its results table.
- * @throws InputError for outputs that cannot be used; RunError when writing fails (the partial
- *   run stays resumable).
+ * @throws InputError for outputs that cannot be used (before any work, nothing on disk changed);
+ *   RunError when writing fails (the partial run stays resumable).
  */
 export async function runSweep(opts: RunOptions): Promise<RunSummary> {
   const t0 = performance.now();
-  const spec = opts.spec;
-  const plan = planSweep(spec);
-  const params = resolveParams(spec.model.params);
-  const hash = sweepHash(spec);
-  const { start: rowStart, end: rowEnd } = opts.shard ? shardRange(plan.count, opts.shard.k, opts.shard.n) : { start: 0, end: plan.count };
-  const workers = Math.max(1, Math.floor(opts.workers ?? os.availableParallelism()));
-  const outPath = path.resolve(opts.outPath);
-  const force = opts.force === true;
-  const resume = opts.resume === true;
-  const format = resolveOutputFormat(outPath, opts.format);
-  const profilesPath = opts.profiles ? profilesPathFor(outPath) : null;
-  const profileGrid = opts.profiles ? formatProfileGrid(opts.profiles) : undefined;
-  const profilePressures = opts.profiles ? profileGridPressures(opts.profiles) : null;
-  checkOutput(outPath, force, resume);
-  if (profilesPath !== null && fs.existsSync(profilesPath) && !force && !resume) {
-    throw new InputError(`--output: ${profilesPath} (the profile table) already exists; use --force to replace it`);
-  }
-
-  const partialDir = partialDirFor(outPath);
-  const manifest: PartialManifest = {
-    sweepHash: hash,
-    rowStart,
-    rowEnd,
-    chunkSize: opts.chunkSize ?? defaultChunkSize(spec, rowEnd - rowStart, profilePressures?.length ?? 0),
-    toolVersion: TOOL_VERSION,
-    ...(profileGrid !== undefined ? { profileGrid } : {}),
-  };
-  if (force) fs.rmSync(partialDir, { recursive: true, force: true });
-  for (const f of [...publishedFiles(format, outPath), ...(profilesPath ? publishedFiles(format, profilesPath) : [])]) removeStaleTemporaries(f);
-
-  let store = fs.existsSync(partialDir) ? SegmentStore.open(partialDir) : null;
-  if (store !== null && !resume) {
-    throw new InputError(`--output: a partial run of ${outPath} exists (${partialDir}); use --resume to finish it or --force to start over`);
-  }
-  if (store !== null) {
-    const m = store.manifest;
-    if (m.sweepHash !== hash || m.rowStart !== rowStart || m.rowEnd !== rowEnd) {
-      throw new InputError(
-        `--resume: the partial run in ${partialDir} belongs to another sweep or shard (hash ${m.sweepHash.slice(0, 12)}, rows ${m.rowStart}-${m.rowEnd}); this sweep is ${hash.slice(0, 12)}, rows ${rowStart}-${rowEnd}`,
-      );
-    }
-    if (m.profileGrid !== profileGrid) {
-      const had = m.profileGrid === undefined ? 'without --profiles' : `with --profiles ${m.profileGrid}`;
-      throw new InputError(`--resume: the partial run in ${partialDir} was started ${had}; resume it with the same --profiles (or start over with --force)`);
-    }
-  } else if (fs.existsSync(partialDir)) {
-    // a folder without a readable manifest: a crash while creating it
-    fs.rmSync(partialDir, { recursive: true, force: true });
-  }
-  if (resume && fs.existsSync(outPath)) {
-    if (await existingOutputMatches(outPath, manifest, profilesPath)) {
-      store?.remove();
-      return finishedSummary(outPath, manifest, workers, t0, hash, format, profilesPath);
-    }
-    if (!force) throw new InputError(`--resume: ${outPath} exists but is not a finished run of this sweep; use --force to replace it`);
-  }
-  store ??= SegmentStore.create(partialDir, manifest);
-  const chunkSize = store.manifest.chunkSize;
-
-  const meta: ResultsTableMeta = {
-    ...tableFieldsOf(spec),
-    sweepJson: JSON.stringify(spec),
-    sweepHash: hash,
-    toolVersion: TOOL_VERSION,
-    params,
-    pointCount: plan.count,
-    rowStart,
-    rowEnd,
-    shard: opts.shard ? `${opts.shard.k}/${opts.shard.n}` : '1/1',
-    blockLabels: plan.hasBlocks ? ['A', 'B', ...plan.axisNames.map((n) => `AB_${n}`)] : null,
-  };
-  const schema = resultsSchema(meta);
-  const dictionary = makeStatusDictionary();
-  const pSchema = profileGrid !== undefined ? profilesSchema(meta, profileGrid) : null;
-  const axis = profilePressures !== null ? profileAxis(profilePressures, params) : null;
-
-  const publication = await Publication.open(
-    format,
-    { path: outPath, schema },
-    dictionary,
-    profilesPath !== null && pSchema !== null ? { path: profilesPath, schema: pSchema } : null,
-    partialDir,
-    opts.writer,
-  );
+  const setup = prepareRun(opts);
+  const lock = lockOutput(setup.outPath, opts.shard ? `run --shard ${opts.shard.k}/${opts.shard.n}` : 'run');
   try {
-    await publication.replay(store);
-  } catch (err) {
-    await publication.abort();
-    throw err;
-  }
-  const resumeFrom = store.committedEnd();
-  const chunks: Array<[number, number]> = [];
-  for (let s = resumeFrom; s < rowEnd; s += chunkSize) chunks.push([s, Math.min(s + chunkSize, rowEnd)]);
-
-  const ctx = makeChunkContext(spec);
-  // the worker keeps one context per key: the profile grid changes what a context computes
-  const specKey = profileGrid === undefined ? hash : `${hash}|profiles ${profileGrid}`;
-  let retriedChunks = 0;
-  let lostChunks = 0;
-  let interrupted = false;
-
-  const pool =
-    chunks.length === 0
-      ? null
-      : new Piscina<ChunkTask, ChunkResult>({
-          filename: pathToFileURL(opts.workerFile ?? sweepWorkerFile()).href,
-          minThreads: Math.min(workers, chunks.length),
-          maxThreads: workers,
-          idleTimeout: 2000,
-        });
-
-  const runChunk = async (idx: number): Promise<ChunkResult> => {
-    const [s, e] = chunks[idx];
-    const base: ChunkTask = opts.profiles ? { specKey, spec, start: s, end: e, profiles: opts.profiles } : { specKey, spec, start: s, end: e };
-    const task: ChunkTask = opts.processModules === undefined ? base : { ...base, processModules: opts.processModules };
-    try {
-      return await pool!.run(task);
-    } catch (first) {
-      retriedChunks++;
-      try {
-        return await pool!.run(task);
-      } catch (second) {
-        lostChunks++;
-        const why = second instanceof Error ? second.message : String(second);
-        return failedChunk(ctx, s, e, `worker failed twice on rows ${s}-${e}: ${why}`);
-      }
-    }
-  };
-
-  // enough queued work that workers keep busy while the main thread commits a segment (fsync)
-  const window = workers * 4 + 2;
-  const finished = new Map<number, ChunkResult>();
-  const inFlight = new Map<number, Promise<void>>();
-  let nextSubmit = 0;
-  let nextWrite = 0;
-  let segBatches: arrow.RecordBatch[] = [];
-  let segProfileBatches: arrow.RecordBatch[] = [];
-  let segProfileRows = 0;
-  let segStart = resumeFrom;
-  let segEnd = resumeFrom;
-  let segRows = 0;
-  let lastCommit = performance.now();
-  const segmentRows = opts.segmentRows ?? 262_144;
-  const segmentMs = (opts.segmentSeconds ?? 3) * 1000;
-
-  const commitSegment = async (): Promise<void> => {
-    if (segBatches.length === 0) return;
-    try {
-      await store!.commit(segStart, segEnd, segBatches, pSchema !== null ? segProfileBatches : undefined);
-    } catch (err) {
-      const why = err instanceof Error ? err.message : String(err);
-      throw new RunError(
-        `cannot write results to ${partialDir}: ${why}. Rows ${rowStart}-${segStart} are kept; fix the problem and rerun the same command with --resume.`,
-      );
-    }
-    await publication.append(segBatches, pSchema !== null ? segProfileBatches : null);
-    segBatches = [];
-    segProfileBatches = [];
-    segProfileRows = 0;
-    segStart = segEnd;
-    segRows = 0;
-    lastCommit = performance.now();
-  };
-
-  const onAbort = (): void => {
-    interrupted = true;
-  };
-  opts.signal?.addEventListener('abort', onAbort);
-  if (opts.signal?.aborted) interrupted = true;
-  try {
-    while (nextWrite < chunks.length) {
-      while (!interrupted && nextSubmit < chunks.length && nextSubmit - nextWrite < window) {
-        const idx = nextSubmit++;
-        inFlight.set(
-          idx,
-          runChunk(idx).then((r) => {
-            finished.set(idx, r);
-            inFlight.delete(idx);
-          }),
-        );
-      }
-      const ready = finished.get(nextWrite);
-      if (ready !== undefined) {
-        finished.delete(nextWrite);
-        nextWrite++;
-        segBatches.push(chunkToRecordBatch(ready, schema, dictionary));
-        if (pSchema !== null && axis !== null) {
-          const pb = profileChunkToRecordBatch(ready, pSchema, axis);
-          if (pb === null) throw new RunError(`rows ${ready.start}-${ready.end} came back without their profiles`);
-          segProfileBatches.push(pb);
-          segProfileRows += pb.numRows;
-        }
-        segEnd = ready.end;
-        segRows += ready.end - ready.start;
-        // profile rows are 7 numbers each: a segment holds at most 8 x segmentRows of them
-        if (segRows >= segmentRows || segProfileRows >= segmentRows * 8 || performance.now() - lastCommit >= segmentMs) await commitSegment();
-        opts.progress?.update(segEnd - rowStart);
-        continue;
-      }
-      if (inFlight.size === 0) break; // interrupted: nothing more will arrive
-      await Promise.race(inFlight.values());
-    }
-    await commitSegment();
-  } catch (err) {
-    await publication.abort();
-    throw err;
+    return await runLocked(setup, opts, t0);
   } finally {
-    opts.signal?.removeEventListener('abort', onAbort);
-    // wait for running tasks so no worker writes after we return
-    await Promise.allSettled(inFlight.values());
-    await pool?.destroy();
+    lock.release();
   }
-
-  const computedRows = segEnd - resumeFrom;
-  if (interrupted && segEnd < rowEnd) {
-    await publication.abort();
-    opts.progress?.finish(segEnd - rowStart);
-    return {
-      outPath, rowStart, rowEnd, rows: segEnd - rowStart, computedRows, counts: emptyCounts(),
-      seconds: (performance.now() - t0) / 1000, workers, chunkSize, retriedChunks, lostChunks, interrupted: true, sweepHash: hash,
-      format, profilesPath,
-    };
-  }
-  opts.progress?.finish(rowEnd - rowStart);
-  await publication.publish();
-  store.remove();
-  return {
-    outPath, rowStart, rowEnd, rows: rowEnd - rowStart, computedRows, counts: publication.counts,
-    seconds: (performance.now() - t0) / 1000, workers, chunkSize, retriedChunks, lostChunks, interrupted: false, sweepHash: hash,
-    format, profilesPath,
-  };
 }
 
-async function finishedSummary(
-  outPath: string, manifest: PartialManifest, workers: number, t0: number, hash: string, format: OutputFormat, profilesPath: string | null,
-): Promise<RunSummary> {
+async function runLocked(s: RunSetup, opts: RunOptions, t0: number): Promise<RunSummary> {
+  const partial = await openPartialRun(s);
+  if (partial.kind === 'finished') return finishedSummary(s, t0);
+  const { store, kept, repaired } = partial;
+  const chunkSize = store.manifest.chunkSize;
+  const publication = await Publication.open(
+    { start: s.rowStart, end: s.rowEnd },
+    s.format,
+    { path: s.outPath, schema: s.schema },
+    s.dictionary,
+    s.profilesPath !== null && s.profileSchema !== null ? { path: s.profilesPath, schema: s.profileSchema } : null,
+    s.partialDir,
+    opts.writer,
+  );
+  const r = await computeRows(s, store, kept, publication, {
+    chunkSize,
+    segmentRows: opts.segmentRows ?? 262_144,
+    segmentMs: (opts.segmentSeconds ?? 3) * 1000,
+    profiles: opts.profiles,
+    processModules: opts.processModules,
+    workerFile: opts.workerFile,
+    progress: opts.progress,
+    signal: opts.signal,
+  });
+  const base = {
+    outPath: s.outPath, rowStart: s.rowStart, rowEnd: s.rowEnd, computedRows: r.computedRows, workers: s.workers, chunkSize,
+    retriedChunks: r.retriedChunks, lostChunks: r.lostChunks, sweepHash: s.hash, format: s.format, profilesPath: s.profilesPath,
+    repairedSegments: repaired,
+  };
+  if (r.interrupted) {
+    await publication.abort();
+    opts.progress?.finish(r.writtenEnd - s.rowStart);
+    return { ...base, rows: r.writtenEnd - s.rowStart, counts: emptyCounts(), seconds: (performance.now() - t0) / 1000, interrupted: true };
+  }
+  opts.progress?.finish(s.rowEnd - s.rowStart);
+  await publication.publish();
+  store.remove();
+  return { ...base, rows: s.rowEnd - s.rowStart, counts: publication.counts, seconds: (performance.now() - t0) / 1000, interrupted: false };
+}
+
+/** The summary of a run that was already finished (resume of a complete output). */
+async function finishedSummary(s: RunSetup, t0: number): Promise<RunSummary> {
   const counts = emptyCounts();
   let rows = 0;
-  for await (const batch of readTableBatches(outPath)) {
+  for await (const batch of readTableBatches(s.outPath)) {
     countStatuses(batch, counts);
     rows += batch.numRows;
   }
   return {
-    outPath, rowStart: manifest.rowStart, rowEnd: manifest.rowEnd, rows, computedRows: 0, counts,
-    seconds: (performance.now() - t0) / 1000, workers, chunkSize: manifest.chunkSize, retriedChunks: 0, lostChunks: 0,
-    interrupted: false, sweepHash: hash, format, profilesPath,
+    outPath: s.outPath, rowStart: s.rowStart, rowEnd: s.rowEnd, rows, computedRows: 0, counts,
+    seconds: (performance.now() - t0) / 1000, workers: s.workers, chunkSize: s.manifest.chunkSize, retriedChunks: 0, lostChunks: 0,
+    interrupted: false, sweepHash: s.hash, format: s.format, profilesPath: s.profilesPath, repairedSegments: [],
   };
 }

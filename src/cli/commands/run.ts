@@ -1,4 +1,5 @@
 import type { Command } from 'commander';
+import os from 'node:os';
 import { InputError } from '../../errors.js';
 import { OUTPUT_FORMATS, parseOutputFormat, type OutputFormat } from '../../io/output-format.js';
 import { formatProfileGrid, parseProfileGrid, type ProfileGrid } from '../../run/profile-grid.js';
@@ -14,6 +15,8 @@ import { summaryAfterRun } from './sensitivity.js';
 export interface RunCommandOptions {
   readonly output: string;
   readonly workers?: number;
+  /** allow more workers than cores */
+  readonly oversubscribe?: boolean;
   readonly resume?: boolean;
   readonly force?: boolean;
   readonly shard?: string;
@@ -36,11 +39,8 @@ export const EXIT_INTERRUPTED = 130;
  * exits at once; committed rows are kept either way).
  */
 export async function executeRun(sweepPath: string, o: RunCommandOptions): Promise<RunSummary> {
-  const spec = await loadSweepFile(sweepPath);
-  if (o.sweepHash !== undefined) checkSweepHash(sweepPath, sweepHash(spec), o.sweepHash);
-  const shard = o.shard === undefined ? undefined : parseShardArg(o.shard, process.env);
-  const plan = planSweep(spec);
-  const range = shard ? shardRange(plan.count, shard.k, shard.n) : { start: 0, end: plan.count };
+  // Ctrl-C is honoured from the first moment: while the sweep is read and planned it stops at once
+  // (nothing is written yet), later the run stops cleanly
   const controller = new AbortController();
   let sigints = 0;
   const onSigint = (): void => {
@@ -55,10 +55,19 @@ export async function executeRun(sweepPath: string, o: RunCommandOptions): Promi
   process.on('SIGINT', onSigint);
   process.on('SIGTERM', onSigint);
   try {
+    const spec = await loadSweepFile(sweepPath);
+    if (o.sweepHash !== undefined) checkSweepHash(sweepPath, sweepHash(spec), o.sweepHash);
+    const shard = o.shard === undefined ? undefined : parseShardArg(o.shard, process.env);
+    const plan = planSweep(spec);
+    const range = shard ? shardRange(plan.count, shard.k, shard.n) : { start: 0, end: plan.count };
+    warnWorkerCap(o);
+    if (controller.signal.aborted) process.exit(EXIT_INTERRUPTED);
     const summary = await runSweep({
       spec,
+      sweepPath,
       outPath: o.output,
       workers: o.workers,
+      oversubscribe: o.oversubscribe,
       resume: o.resume,
       force: o.force,
       shard,
@@ -68,11 +77,21 @@ export async function executeRun(sweepPath: string, o: RunCommandOptions): Promi
       profiles: o.profiles,
       progress: o.quiet ? null : createProgress({ totalRows: range.end - range.start, startRows: 0, stream: process.stderr }),
     });
+    for (const r of summary.repairedSegments) {
+      process.stderr.write(`resume: committed segment ${r.name} ${r.why}; its rows were computed again\n`);
+    }
     return summary;
   } finally {
     process.off('SIGINT', onSigint);
     process.off('SIGTERM', onSigint);
   }
+}
+
+/** Say so when --workers asks for more threads than the machine has cores (they are capped). */
+function warnWorkerCap(o: RunCommandOptions): void {
+  const cores = os.availableParallelism();
+  if (o.workers === undefined || o.workers <= cores || o.oversubscribe === true) return;
+  process.stderr.write(`note: --workers ${o.workers} is more than the ${cores} available cores; using ${cores} (add --oversubscribe to use ${o.workers})\n`);
 }
 
 /** Refuse a sweep whose hash is not the one recorded when its jobs were submitted. */
@@ -107,7 +126,8 @@ export function registerRun(program: Command): void {
     .requiredOption('-o, --output <file>', 'output table (.arrow/.feather/.ipc: Arrow IPC, .parquet: Parquet, .csv: CSV; other names: see --format)')
     .option('--format <format>', `table format: ${OUTPUT_FORMATS.join(', ')} (default: from the output's extension, else arrow)`, parseOutputFormat)
     .option('--profiles <from:to:step>', 'also write OUTPUT.profiles.EXT: every column sampled on this pressure grid in GPa, e.g. 0:8:0.05', parseProfileGrid)
-    .option('-w, --workers <n>', 'worker threads (default: all available cores)', parseWorkers)
+    .option('-w, --workers <n>', 'worker threads (default: all available cores; capped at the cores unless --oversubscribe)', parseWorkers)
+    .option('--oversubscribe', 'allow --workers above the number of available cores')
     .option('--resume', 'finish an interrupted run of the same sweep')
     .option('--force', 'replace an existing output and discard a partial run')
     .option('--shard <k/n>', 'compute only shard k of n (1-based), or "auto" from a batch scheduler array job')
