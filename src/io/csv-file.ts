@@ -12,6 +12,7 @@
 import * as arrow from 'apache-arrow';
 import fs from 'node:fs';
 import path from 'node:path';
+import { crc32, crcHex } from './checksum.js';
 import { discardTemporaryFile, publishTemporaryFile, writeAllSync, writeFileAtomic } from './ipc-file.js';
 
 /** The sidecar of a CSV table: `FILE.units.json`. */
@@ -39,6 +40,8 @@ export interface CsvSidecar {
   readonly columns: readonly CsvSidecarColumn[];
   /** the table's schema metadata (meltsweep.* keys: sweep, hash, version, rows, shard, ...) */
   readonly metadata: Readonly<Record<string, string>>;
+  /** CRC-32 of the CSV file's bytes (8 hex digits); absent in sidecars of older versions */
+  readonly data_crc32?: string;
 }
 
 const NEEDS_QUOTES = /[",\r\n]/;
@@ -107,7 +110,7 @@ export function batchToCsv(batch: arrow.RecordBatch): string {
 }
 
 /** The sidecar describing a CSV table with this schema and row count. */
-export function csvSidecar(csvPath: string, schema: arrow.Schema, rows: number): CsvSidecar {
+export function csvSidecar(csvPath: string, schema: arrow.Schema, rows: number, dataCrc32?: string): CsvSidecar {
   return {
     meltsweep_csv: 1,
     file: path.basename(csvPath),
@@ -120,6 +123,7 @@ export function csvSidecar(csvPath: string, schema: arrow.Schema, rows: number):
       description: f.metadata.get('description') ?? '',
     })),
     metadata: Object.fromEntries(schema.metadata),
+    ...(dataCrc32 !== undefined ? { data_crc32: dataCrc32 } : {}),
   };
 }
 
@@ -133,7 +137,13 @@ const FORMAT_BLOCK_ROWS = 16_384;
 export class CsvFileSink {
   private readonly fd: number;
   private closed = false;
+  private crc = 0;
   rows = 0;
+
+  private writeBytes(bytes: Uint8Array): void {
+    writeAllSync(this.fd, bytes);
+    this.crc = crc32(bytes, this.crc);
+  }
 
   constructor(
     readonly finalPath: string,
@@ -142,7 +152,7 @@ export class CsvFileSink {
   ) {
     this.fd = fs.openSync(tmpPath, 'w');
     try {
-      writeAllSync(this.fd, Buffer.from(`${schema.fields.map((f) => (NEEDS_QUOTES.test(f.name) ? quoteCsv(f.name) : f.name)).join(',')}\n`));
+      this.writeBytes(Buffer.from(`${schema.fields.map((f) => (NEEDS_QUOTES.test(f.name) ? quoteCsv(f.name) : f.name)).join(',')}\n`));
     } catch (err) {
       fs.closeSync(this.fd);
       fs.rmSync(tmpPath, { force: true });
@@ -153,7 +163,7 @@ export class CsvFileSink {
   async write(batch: arrow.RecordBatch): Promise<void> {
     for (let s = 0; s < batch.numRows; s += FORMAT_BLOCK_ROWS) {
       const part = s === 0 && batch.numRows <= FORMAT_BLOCK_ROWS ? batch : batch.slice(s, Math.min(batch.numRows, s + FORMAT_BLOCK_ROWS));
-      writeAllSync(this.fd, Buffer.from(batchToCsv(part)));
+      this.writeBytes(Buffer.from(batchToCsv(part)));
     }
     this.rows += batch.numRows;
   }
@@ -161,7 +171,7 @@ export class CsvFileSink {
   async publish(): Promise<void> {
     this.closed = true;
     // the sidecar first: a published CSV always has its units beside it
-    writeFileAtomic(csvSidecarPath(this.finalPath), `${JSON.stringify(csvSidecar(this.finalPath, this.schema, this.rows), null, 2)}\n`);
+    writeFileAtomic(csvSidecarPath(this.finalPath), `${JSON.stringify(csvSidecar(this.finalPath, this.schema, this.rows, crcHex(this.crc)), null, 2)}\n`);
     publishTemporaryFile(this.fd, this.tmpPath, this.finalPath);
   }
 

@@ -6,6 +6,7 @@
 import * as arrow from 'apache-arrow';
 import fs from 'node:fs';
 import path from 'node:path';
+import { ChecksummedFileWriter } from './checksummed-writer.js';
 
 /**
  * Write all of `bytes` at the file's current position. fs.writeSync may write fewer bytes than
@@ -45,7 +46,8 @@ export class IpcFileSink {
     schema: arrow.Schema,
   ) {
     const fd = fs.openSync(tmpPath, 'w');
-    const writer = new arrow.RecordBatchFileWriter();
+    // the footer's schema metadata gets the CRC-32 of the data (src/io/table-checksum.ts)
+    const writer = new ChecksummedFileWriter();
     writer.reset(undefined, schema);
     this.fd = fd;
     this.writer = writer;

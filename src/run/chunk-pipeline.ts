@@ -56,11 +56,12 @@ export interface PipelineResult {
   readonly interrupted: boolean;
 }
 
-/** A chunk handed to the pool, with its rows. */
+/** A chunk handed to the pool, with its rows; result null: cancelled by an interruption before it ran. */
 interface Submitted {
   readonly start: number;
   readonly end: number;
-  result?: ChunkResult;
+  readonly cancel: AbortController;
+  result?: ChunkResult | null;
   readonly done: Promise<void>;
 }
 
@@ -79,8 +80,13 @@ export async function computeRows(
   const axis = s.profilePressures !== null ? profileAxis(s.profilePressures, s.params) : null;
   const stats = { retried: 0, lost: 0, computed: 0 };
   let interrupted = o.signal?.aborted === true;
+  const queue: Submitted[] = [];
   const onAbort = (): void => {
     interrupted = true;
+    // every chunk not finished yet is cancelled (a running one stops its worker thread), so
+    // Ctrl-C takes effect at once whatever the queue and the chunk size; finished chunks are
+    // committed in order up to the first cancelled one, and the rest is computed on --resume
+    for (const q of queue) if (q.result === undefined) q.cancel.abort();
   };
   o.signal?.addEventListener('abort', onAbort);
 
@@ -94,16 +100,18 @@ export async function computeRows(
           idleTimeout: 2000,
         });
 
-  const runChunk = async (start: number, end: number): Promise<ChunkResult> => {
+  const runChunk = async (start: number, end: number, cancel: AbortSignal): Promise<ChunkResult | null> => {
     const base: ChunkTask = o.profiles ? { specKey, spec: s.spec, start, end, profiles: o.profiles } : { specKey, spec: s.spec, start, end };
     const task: ChunkTask = o.processModules === undefined ? base : { ...base, processModules: o.processModules };
     try {
-      return await pool!.run(task);
+      return await pool!.run(task, { signal: cancel });
     } catch {
+      if (cancel.aborted) return null;
       stats.retried++;
       try {
-        return await pool!.run(task);
+        return await pool!.run(task, { signal: cancel });
       } catch (second) {
+        if (cancel.aborted) return null;
         stats.lost++;
         const why = second instanceof Error ? second.message : String(second);
         return failedChunk(ctx, start, end, `worker failed twice on rows ${start}-${end}: ${why}`);
@@ -153,7 +161,6 @@ export async function computeRows(
 
   // enough queued work that workers keep busy while the main thread commits a segment (fsync)
   const window = s.workers * 4 + 2;
-  const queue: Submitted[] = [];
   let keptIdx = 0;
   try {
     for (;;) {
@@ -168,9 +175,10 @@ export async function computeRows(
       }
       while (!interrupted && pending.done !== true && queue.length < window) {
         const [start, end] = pending.value;
+        const cancel = new AbortController();
         const item: Submitted = {
-          start, end,
-          done: runChunk(start, end).then((r) => {
+          start, end, cancel,
+          done: runChunk(start, end, cancel.signal).then((r) => {
             item.result = r;
           }),
         };
@@ -179,10 +187,11 @@ export async function computeRows(
       }
       const head = queue[0];
       if (head === undefined) break; // complete, or interrupted with nothing in flight
-      // interrupted or not, the chunks in flight are finished and committed in order
+      // interrupted or not, the chunks that ran are committed in order, up to the first cancelled one
       await head.done;
+      if (head.result === null || head.result === undefined) break;
       queue.shift();
-      await accept(head.result!);
+      await accept(head.result);
     }
     await commitSegment();
   } catch (err) {

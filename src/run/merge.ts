@@ -1,6 +1,8 @@
 /**
- * Merge shard outputs into one table: every shard must come from the same sweep (hash) and
- * together they must cover the sweep's rows exactly once. Shards may be in any table format;
+ * Merge shard outputs into one table: every shard must come from the same sweep (hash) and the
+ * same meltsweep version, pass its checksum (src/io/table-checksum.ts), hold exactly the rows its
+ * metadata claims, and together they must cover the sweep's rows exactly once. Nothing is
+ * published unless all of that holds. Shards may be in any table format;
  * the merged table is written in the format asked for. When every shard has a profile table
  * (SHARD.profiles.EXT), those are merged too.
  */
@@ -16,7 +18,10 @@ import { profilesPathFor, resolveOutputFormat, type OutputFormat } from '../io/o
 import { profilesSchema } from '../io/profile-table.js';
 import { readTableBatches, readTableSchema } from '../io/table-reader.js';
 import { openTableSink, type TableSinkOptions } from '../io/table-sink.js';
-import { countStatuses } from './publication.js';
+import { checkScenarioIds, countStatuses } from './publication.js';
+import { verifyTableChecksum } from '../io/table-checksum.js';
+import { checkCompanion, checkOutput } from './output-guard.js';
+import { lockOutput } from './output-lock.js';
 import { shardRange } from '../plan/shards.js';
 import { COLUMN_STATUSES } from '../physics/types.js';
 
@@ -66,6 +71,19 @@ export async function checkShards(files: readonly string[]): Promise<ShardInfo[]
   for (const s of infos.slice(1)) {
     if (s.meta.sweepHash !== first.sweepHash) {
       problems.push(`merge: ${s.file} comes from sweep ${s.meta.sweepHash.slice(0, 12)}, but ${infos[0].file} from ${first.sweepHash.slice(0, 12)}: shards must come from the same sweep`);
+    } else if (s.meta.toolVersion !== first.toolVersion) {
+      problems.push(
+        `merge: ${s.file} was computed by meltsweep ${s.meta.toolVersion}, ${infos[0].file} by ${first.toolVersion}: versions may compute different numbers, so one table must not mix them; rerun the shards with one version`,
+      );
+    }
+  }
+  for (const s of infos) {
+    const check = await verifyTableChecksum(s.file);
+    if (check.status === 'bad') problems.push(`merge: ${s.file} is damaged: ${check.why}; run that shard again`);
+    for (const companion of [profilesPathFor(s.file)]) {
+      if (!fs.existsSync(companion)) continue;
+      const pc = await verifyTableChecksum(companion);
+      if (pc.status === 'bad') problems.push(`merge: ${companion} is damaged: ${pc.why}; run that shard again`);
     }
   }
   if (problems.length > 0) throw new InputError(problems);
@@ -79,6 +97,21 @@ export async function checkShards(files: readonly string[]): Promise<ShardInfo[]
   if (next < first.pointCount) problems.push(`merge: rows ${next}-${first.pointCount} are missing (${missingShards(infos, next, first.pointCount)})`);
   if (problems.length > 0) throw new InputError(problems);
   return infos;
+}
+
+/** The scenario ids of a shard's batch must continue at `next`; returns the id after its last row. */
+function checkShardRows(batch: arrow.RecordBatch, next: number, s: ShardInfo): number {
+  try {
+    return checkScenarioIds(batch, next, `merge: ${s.file}`);
+  } catch (err) {
+    throw new InputError(`${err instanceof Error ? err.message : String(err)}; its metadata claims rows ${s.meta.rowStart}-${s.meta.rowEnd}: run that shard again`);
+  }
+}
+
+/** Input problems pass through; anything else is a write failure naming the file. */
+function writeError(file: string, err: unknown): Error {
+  if (err instanceof InputError || err instanceof RunError) return err;
+  return new RunError(`cannot write ${file}: ${err instanceof Error ? err.message : String(err)}`);
 }
 
 /** "shard 3 of 4 is missing" when the shards were cut k/n alike, else "no shard covers them". */
@@ -119,23 +152,30 @@ async function shardProfileGrid(infos: readonly ShardInfo[]): Promise<{ grid: st
 
 /**
  * Merge shard tables of one sweep into `outPath` (atomically, in the format asked for).
- * @param optionsOrForce MergeOptions, or a boolean: replace an existing output
- * @throws InputError when the shards do not fit together or the output exists without force
+ * @throws InputError when the shards do not fit together, one is damaged or holds other rows
+ *   than its metadata claims, or the output exists without force
  */
-export async function mergeShards(files: readonly string[], outPath: string, optionsOrForce: MergeOptions | boolean = {}): Promise<MergeSummary> {
-  // a boolean third argument is the force flag (the original signature)
-  const options: MergeOptions = typeof optionsOrForce === 'boolean' ? { force: optionsOrForce } : optionsOrForce;
-  const infos = await checkShards(files);
+export async function mergeShards(files: readonly string[], outPath: string, options: MergeOptions = {}): Promise<MergeSummary> {
   const resolved = path.resolve(outPath);
+  checkOutput(resolved, options.force === true, false, '--output', files);
+  const infos = await checkShards(files);
   const format = resolveOutputFormat(resolved, options.format);
-  if (fs.existsSync(resolved) && options.force !== true) throw new InputError(`--output: ${outPath} already exists; use --force to replace it`);
+  const lock = lockOutput(resolved, 'merge');
+  try {
+    return await mergeLocked(infos, resolved, format, options);
+  } finally {
+    lock.release();
+  }
+}
+
+async function mergeLocked(infos: readonly ShardInfo[], resolved: string, format: OutputFormat, options: MergeOptions): Promise<MergeSummary> {
   const { grid, note } = await shardProfileGrid(infos);
   const m = infos[0].meta;
   const meta: ResultsTableMeta = { ...m, rowStart: 0, rowEnd: m.pointCount, shard: '1/1' };
   let profilesPath: string | null = null;
   if (grid !== null) {
     profilesPath = profilesPathFor(resolved);
-    if (fs.existsSync(profilesPath) && options.force !== true) throw new InputError(`--output: ${profilesPath} already exists; use --force to replace it`);
+    checkCompanion(profilesPath, 'the merged profile table', options.force === true);
     const pSchema = profilesSchema(meta, grid);
     const psink = await openTableSink(format, profilesPath, pSchema, options.writer);
     try {
@@ -145,7 +185,7 @@ export async function mergeShards(files: readonly string[], outPath: string, opt
       await psink.publish();
     } catch (err) {
       await psink.abort();
-      throw new RunError(`cannot write ${profilesPath}: ${err instanceof Error ? err.message : String(err)}`);
+      throw writeError(profilesPath, err);
     }
   }
   const schema = resultsSchema(meta);
@@ -155,17 +195,23 @@ export async function mergeShards(files: readonly string[], outPath: string, opt
   let rows = 0;
   try {
     for (const s of infos) {
+      let next = s.meta.rowStart;
       for await (const batch of readTableBatches(s.file)) {
         const rebuilt = withSharedDictionary(batch, schema, dictionary);
+        next = checkShardRows(rebuilt, next, s);
         countStatuses(rebuilt, counts);
         rows += rebuilt.numRows;
         await sink.write(rebuilt);
+      }
+      if (next !== s.meta.rowEnd) {
+        throw new InputError(`merge: ${s.file} holds rows ${s.meta.rowStart}-${next}, but its metadata claims ${s.meta.rowStart}-${s.meta.rowEnd} (rows missing: the file was cut or edited); run that shard again`);
       }
     }
     await sink.publish();
   } catch (err) {
     await sink.abort();
-    throw new RunError(`cannot write ${outPath}: ${err instanceof Error ? err.message : String(err)}`);
+    if (profilesPath !== null) fs.rmSync(profilesPath, { force: true });
+    throw writeError(resolved, err);
   }
   return { outPath: resolved, rows, shards: infos.length, counts, format, profilesPath, profilesNote: note };
 }

@@ -46,7 +46,7 @@ export async function executeRun(sweepPath: string, o: RunCommandOptions): Promi
   const onSigint = (): void => {
     sigints++;
     if (sigints === 1) {
-      process.stderr.write('\nstopping: finishing the chunks in flight and keeping every finished row (Ctrl-C again to quit at once)\n');
+      process.stderr.write('\nstopping: committing every finished row (Ctrl-C again to quit at once)\n');
       controller.abort();
     } else {
       process.exit(EXIT_INTERRUPTED);
