@@ -1,0 +1,162 @@
+/**
+ * One writer per output, and bounded resources whatever the input: a second run on a running
+ * output is refused and changes nothing; stale locks are taken over; a 10^12-point run stops on
+ * Ctrl-C promptly with bounded memory; -w above the core count is capped.
+ */
+import { afterAll, describe, expect, it } from 'vitest';
+import { spawnSync } from 'node:child_process';
+import { once } from 'node:events';
+import fs from 'node:fs';
+import os from 'node:os';
+import path from 'node:path';
+import { setTimeout as sleep } from 'node:timers/promises';
+import { validateSweep } from '../../src/spec/index.js';
+import { runSweep } from '../../src/run/run-sweep.js';
+import { lockOutput, lockPathFor } from '../../src/run/output-lock.js';
+import { InputError } from '../../src/errors.js';
+import { readTable, runCliSync, spawnCli, tableColumns, tmpDir, writeSweep } from '../helpers.js';
+
+const dir = tmpDir('concurrency');
+afterAll(() => fs.rmSync(dir, { recursive: true, force: true }));
+
+// 6,000 isentropic columns on one worker: several seconds, long enough to be interfered with
+const SWEEP = `
+name: lock test L-1
+axes:
+  tp_c: { from: 1250, to: 1550, count: 60 }
+  water_ppm: { from: 0, to: 600, count: 25 }
+  lid_km: { values: [0, 20, 40, 60] }
+design: { kind: grid }
+model: { thermal: isentropic, water: batch }
+`;
+
+async function waitFor(cond: () => boolean, ms: number): Promise<void> {
+  const t0 = Date.now();
+  while (!cond()) {
+    if (Date.now() - t0 > ms) throw new Error('timed out waiting');
+    await sleep(20);
+  }
+}
+
+/** The pid of a process that has already exited (a stale lock's owner). */
+function deadPid(): number {
+  const r = spawnSync(process.execPath, ['-e', 'process.stdout.write(String(process.pid))'], { encoding: 'utf8' });
+  return Number(r.stdout);
+}
+
+describe('one writer per output', () => {
+  it('a second run or --resume on a running output is refused (exit 2) and does not disturb the first', async () => {
+    const sweep = writeSweep(dir, 'l1.yaml', SWEEP);
+    const spec = validateSweep((await import('yaml')).parse(SWEEP));
+    const out = path.join(dir, 'busy.arrow');
+    const first = spawnCli(['run', sweep, '-o', out, '--workers', '1', '--quiet', '--no-summary', '--commit-seconds', '0.1']);
+    let stderr = '';
+    first.stderr!.on('data', (d: Buffer) => (stderr += d.toString()));
+    const exited = once(first, 'exit');
+    const tmp = `${out}.tmp-${first.pid}`;
+    await waitFor(() => fs.existsSync(tmp) && fs.existsSync(`${out}.partial`), 60_000);
+    // in this process: the library refuses with the owner named
+    await expect(runSweep({ spec, outPath: out, workers: 1, resume: true })).rejects.toThrow(InputError);
+    await expect(runSweep({ spec, outPath: out, workers: 1, resume: true })).rejects.toThrow(
+      new RegExp(`being written by another meltsweep command \\(process ${first.pid}, run`),
+    );
+    await expect(runSweep({ spec, outPath: out, workers: 1 })).rejects.toThrow(/being written by another meltsweep command/);
+    await expect(runSweep({ spec, outPath: out, workers: 1, force: true })).rejects.toThrow(/being written by another meltsweep command/);
+    // the first run's temporary output and partial run are untouched
+    expect(fs.existsSync(tmp)).toBe(true);
+    expect(fs.existsSync(`${out}.partial/manifest.json`)).toBe(true);
+    const [code] = (await exited) as [number | null];
+    expect(code, stderr).toBe(0);
+    const t = readTable(out);
+    expect(t.numRows).toBe(6000);
+    expect(tableColumns(t).scenario_id).toEqual(Array.from({ length: 6000 }, (_, i) => i));
+    expect(fs.existsSync(lockPathFor(out))).toBe(false);
+  }, 120_000);
+
+  it('a stale lock (its process is gone) is taken over; a lock held on another host is refused naming it', () => {
+    const sweep = writeSweep(dir, 'small.yaml', 'name: small S-2\naxes:\n  tp_c: { from: 1300, to: 1400, count: 5 }\nfixed: { water_ppm: 0 }\nmodel: { thermal: isentropic }\n');
+    const out = path.join(dir, 'stale.arrow');
+    const lock = lockPathFor(out);
+    const owner = { kind: 'meltsweep output lock', pid: deadPid(), host: os.hostname(), since: '2000-01-01T00:00:00.000Z', command: 'run' };
+    fs.writeFileSync(lock, JSON.stringify(owner));
+    const r = runCliSync(['run', sweep, '-o', out, '--quiet', '--no-summary', '--workers', '1']);
+    expect(r.status, r.stderr).toBe(0);
+    expect(fs.existsSync(lock)).toBe(false);
+    const elsewhere = path.join(dir, 'elsewhere.arrow');
+    fs.writeFileSync(lockPathFor(elsewhere), JSON.stringify({ ...owner, host: 'node-z9', pid: 4242 }));
+    const refused = runCliSync(['run', sweep, '-o', elsewhere, '--quiet', '--no-summary']);
+    expect(refused.status).toBe(2);
+    expect(refused.stderr).toContain('process 4242 on host node-z9');
+    expect(refused.stderr).toContain(`delete ${lockPathFor(elsewhere)} if that process is gone`);
+    expect(fs.readdirSync(dir).filter((n) => n.startsWith('elsewhere.arrow'))).toEqual(['elsewhere.arrow.lock']);
+  }, 60_000);
+
+  it('the lock is exclusive within one process too, and released only by its owner', () => {
+    const out = path.join(dir, 'twice.arrow');
+    const a = lockOutput(out, 'test');
+    expect(() => lockOutput(out, 'test')).toThrow(/being written by another meltsweep command/);
+    a.release();
+    const b = lockOutput(out, 'test');
+    a.release(); // a second release by the old owner must not free the new lock
+    expect(fs.existsSync(lockPathFor(out))).toBe(true);
+    b.release();
+    expect(fs.existsSync(lockPathFor(out))).toBe(false);
+  });
+});
+
+describe('bounded resources', () => {
+  /** Peak resident memory of a process, MB (Linux /proc). */
+  function peakRssMb(pid: number): number {
+    const m = /VmHWM:\s+(\d+) kB/.exec(fs.readFileSync(`/proc/${pid}/status`, 'utf8'));
+    return m ? Number(m[1]) / 1024 : NaN;
+  }
+
+  it.runIf(process.platform === 'linux')('a 10^12-point run stops on Ctrl-C within 2 s with its memory under 300 MB, and is resumable', async () => {
+    const sweep = writeSweep(dir, 'huge.yaml', `
+name: huge sweep H-1
+axes:
+  tp_c: { from: 1250, to: 1550, count: 1000 }
+  water_ppm: { from: 0, to: 800, count: 1000 }
+  lid_km: { from: 0, to: 100, count: 1000 }
+  upwelling_mm_yr: { from: 10, to: 100, count: 1000 }
+design: { kind: grid }
+model: { thermal: isentropic, water: batch }
+`);
+    const out = path.join(dir, 'huge.arrow');
+    const child = spawnCli(['run', sweep, '-o', out, '--quiet', '--no-summary', '--commit-seconds', '0.2']);
+    let stderr = '';
+    child.stderr!.on('data', (d: Buffer) => (stderr += d.toString()));
+    const exited = once(child, 'exit');
+    // running: the output's temporary file exists once the pool is computing
+    await waitFor(() => fs.existsSync(`${out}.tmp-${child.pid}`), 60_000);
+    await sleep(1500);
+    const rssMb = peakRssMb(child.pid!);
+    const t0 = performance.now();
+    child.kill('SIGINT');
+    const [code] = (await exited) as [number | null];
+    const stopMs = performance.now() - t0;
+    process.stdout.write(`10^12-point run: peak RSS ${rssMb.toFixed(0)} MB, stopped ${stopMs.toFixed(0)} ms after SIGINT\n`);
+    expect(code, stderr).toBe(130);
+    expect(rssMb).toBeLessThan(300);
+    // the brief's bound for Ctrl-C; the unfinished chunks are cancelled, so this is not a speed race
+    expect(stopMs).toBeLessThan(2000);
+    expect(stderr).toContain('--resume');
+    expect(fs.existsSync(`${out}.partial/manifest.json`)).toBe(true);
+    expect(fs.readdirSync(dir).filter((n) => n.startsWith('huge.arrow.tmp-'))).toEqual([]);
+    expect(fs.existsSync(lockPathFor(out))).toBe(false);
+  }, 120_000);
+
+  it('--workers above the core count is capped (with a note) unless --oversubscribe', async () => {
+    const sweep = writeSweep(dir, 'cap.yaml', 'name: cap C-3\naxes:\n  tp_c: { from: 1300, to: 1400, count: 40 }\nfixed: { water_ppm: 0 }\nmodel: { thermal: isentropic }\n');
+    const cores = os.availableParallelism();
+    const r = runCliSync(['run', sweep, '-o', path.join(dir, 'cap.arrow'), '-w', '1024', '--quiet', '--no-summary']);
+    expect(r.status, r.stderr).toBe(0);
+    expect(r.stderr).toContain(`--workers 1024 is more than the ${cores} available cores; using ${cores} (add --oversubscribe to use 1024)`);
+    expect(r.stdout).toContain(`on ${cores} worker`);
+    const spec = validateSweep((await import('yaml')).parse(fs.readFileSync(sweep, 'utf8')));
+    const capped = await runSweep({ spec, outPath: path.join(dir, 'capped.arrow'), workers: cores + 1 });
+    expect(capped.workers).toBe(cores);
+    const over = await runSweep({ spec, outPath: path.join(dir, 'over.arrow'), workers: cores + 1, oversubscribe: true });
+    expect(over.workers).toBe(cores + 1);
+  }, 60_000);
+});
