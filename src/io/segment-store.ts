@@ -98,7 +98,7 @@ function manifestProblem(data: unknown): string | null {
 /** The result of opening a partial-run folder. */
 export type OpenedPartial =
   | { readonly kind: 'ok'; readonly store: SegmentStore }
-  /** no manifest and nothing else of value: a crash while the folder was being created */
+  /** no folder, or no manifest and nothing else of value (a crash while the folder was being created) */
   | { readonly kind: 'empty' }
   /** a manifest that cannot be read or is not ours, with the reason */
   | { readonly kind: 'damaged'; readonly why: string };
@@ -126,6 +126,7 @@ export class SegmentStore {
     } catch (err) {
       const code = (err as NodeJS.ErrnoException).code;
       if (code === 'ENOENT') {
+        if (!fs.existsSync(dir)) return { kind: 'empty' };
         const valuable = fs.readdirSync(dir).filter((n) => !/\.tmp-\d+$/.test(n));
         return valuable.length === 0 ? { kind: 'empty' } : { kind: 'damaged', why: `${MANIFEST} is missing` };
       }

@@ -152,7 +152,7 @@ describe('meltsweep submit', () => {
       expect(t.status, t.stderr).toBe(0);
     }
     const early = runBash(`${out}.merge.sbatch`);
-    expect(early.status).toBe(2);
+    expect(early.status, early.stderr).toBe(2);
     expect(early.stderr).toContain('shard 2 of 3 is missing (part-2.arrow: not started, or failed before committing a row)');
     expect(early.stderr).toContain(`rerun them: sbatch --array=2 ${out}.shards.sbatch`);
     expect(fs.existsSync(out)).toBe(false);

@@ -103,5 +103,6 @@ describe('kill -9 and resume', () => {
     expect(a.scenario_id.length).toBe(ROWS);
     expect(a.scenario_id).toEqual(Array.from({ length: ROWS }, (_, i) => i));
     expect(a).toEqual(b);
-  });
+    // about a minute alone on the shared 2-core machine, more than two under the whole suite
+  }, 300_000);
 });
