@@ -4,6 +4,7 @@
  */
 import { InputError } from '../errors.js';
 import { inputsOfSpec, processOfSpec } from '../process/registry.js';
+import { didYouMean } from '../spec/suggest.js';
 import type { SweepSpec } from '../spec/types.js';
 import { fieldInfo, formatNumber } from './labels.js';
 
@@ -67,7 +68,8 @@ function sweptCheck(option: string, name: string, spec: SweepSpec): string {
     const held = v === undefined ? 'not given' : `held at ${formatNumber(v)} ${fieldInfo(name).unit}`;
     throw new InputError(`${option}: ${name} is not swept in this sweep (${held}); ${allowed}`);
   }
-  throw new InputError(`${option}: ${JSON.stringify(name)} is not an input; ${allowed}`);
+  const near = didYouMean(name, swept.length > 0 ? swept : inputsOfSpec(spec).map((i) => i.name));
+  throw new InputError(`${option}: ${JSON.stringify(name)} is not an input; ${near}${allowed}`);
 }
 
 /**
@@ -87,7 +89,7 @@ export function resolveReportOptions(o: ReportOptions, spec: SweepSpec, outputsW
   if (o.outputs !== undefined) {
     outputs = [];
     for (const name of o.outputs) {
-      if (!(RESULT_NUMERIC_NAMES as readonly string[]).includes(name)) problems.push(`--outputs: ${JSON.stringify(name)} is not an output column; allowed: ${RESULT_NUMERIC_NAMES.join(', ')}`);
+      if (!(RESULT_NUMERIC_NAMES as readonly string[]).includes(name)) problems.push(`--outputs: ${JSON.stringify(name)} is not an output column; ${didYouMean(name, RESULT_NUMERIC_NAMES)}allowed: ${RESULT_NUMERIC_NAMES.join(', ')}`);
       else if (!outputsWithValues.includes(name)) problems.push(`--outputs: ${name} holds no values in ${file}; outputs with values: ${outputsWithValues.join(', ') || 'none'}`);
       else if (!outputs.includes(name)) outputs.push(name);
     }

@@ -8,6 +8,7 @@ import path from 'node:path';
 import { analyzeSensitivity, type SensitivityReport } from '../analyze/index.js';
 import { InputError } from '../errors.js';
 import { planSweep } from '../plan/index.js';
+import { didYouMean } from '../spec/suggest.js';
 import type { SweepSpec } from '../spec/types.js';
 import { readResultsMeta } from '../io/arrow-schema.js';
 import { writeFileAtomic } from '../io/ipc-file.js';
@@ -109,7 +110,7 @@ export async function analyzeResultsFile(file: string, options: SensitivityFileO
   const outputs = options.outputs ?? available;
   for (const o of outputs) {
     if (!RESULT_NUMERIC_NAMES.includes(o)) {
-      throw new InputError(`--outputs: ${o} is not an output column; allowed: ${RESULT_NUMERIC_NAMES.join(', ')}`);
+      throw new InputError(`--outputs: ${JSON.stringify(o)} is not an output column; ${didYouMean(o, RESULT_NUMERIC_NAMES)}allowed: ${RESULT_NUMERIC_NAMES.join(', ')}`);
     }
   }
   const cols = await readColumns(file, plan.axisNames, outputs, meta.pointCount);

@@ -123,6 +123,29 @@ export function resultRecord(process: AnyProcess, r: ProcessResult): Record<stri
   return out;
 }
 
+/**
+ * What `column --json` prints: the result record, then what it ran with: `inputs` (every input of
+ * the process by name, null for "not given") and `model` (the process, its validated model options
+ * and, where the process describes it, the line naming what was resolved, e.g. the thermal model
+ * chosen by `auto`).
+ */
+export function columnJson(
+  process: AnyProcess,
+  r: ProcessResult,
+  inputs: Readonly<Record<string, number>>,
+  model: ModelSpec,
+  runtime: unknown,
+): Record<string, unknown> {
+  const given: Record<string, number | null> = {};
+  for (const i of process.inputsFor(model)) given[i.name] = Number.isFinite(inputs[i.name]) ? inputs[i.name] : null;
+  const resolved = process.describeColumn?.(inputs, runtime);
+  return {
+    ...resultRecord(process, r),
+    inputs: given,
+    model: { process: process.name, ...model, ...(resolved === undefined ? {} : { resolved }) },
+  };
+}
+
 function formatNumber(v: number | null): string {
   if (v === null) return '-';
   if (v === 0) return '0';
@@ -172,7 +195,7 @@ export function registerColumn(program: Command): void {
     .option('--mode <mode>', 'water mode: batch or fractional (default batch) [process decompression]')
     .option('--thermal <model>', 'thermal model: isentropic, conductive, auto (default auto: conductive with --upwelling, else isentropic) [process decompression]')
     .option('--step <GPa>', `isentropic pressure step (${formatRange(STEP_GPA_RANGE)}, default 0.05) [process decompression]`)
-    .option('--json', 'print one JSON object: status, reason and every numeric result field (null where not applicable)')
+    .option('--json', 'print one JSON object: status, reason, every numeric result field (null where not applicable), then the inputs and model options it ran with')
     .option('--profile <file.csv>', 'write the profile along the melting column to a CSV file')
     .action((o: ColumnOptions) => {
       const { process: proc, inputs, model } = columnInputs(o);
@@ -186,7 +209,7 @@ export function registerColumn(program: Command): void {
         }
       }
       if (o.json) {
-        process.stdout.write(`${JSON.stringify(resultRecord(proc, result))}\n`);
+        process.stdout.write(`${JSON.stringify(columnJson(proc, result, inputs, model, runtime))}\n`);
       } else {
         const line = proc.describeColumn?.(inputs, runtime) ?? `process: ${proc.name}`;
         process.stdout.write(`${line}\n${resultTable(proc, result)}\n`);
