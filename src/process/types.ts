@@ -57,6 +57,8 @@ export interface ProcessModelOptions {
    * Validate the section (every problem recorded with its path, e.g. `model.thermal`) and
    * return its normalized, JSON-plain form (key order fixed; `process` omitted for the default
    * process so stored specs and hashes of older files do not change), or undefined on a problem.
+   * Wrap it with `describeModelValidator` (src/spec/json-schema.ts) to state each key's JSON Schema
+   * for `meltsweep schema`; without it the sweep-file schema checks the keys by name only.
    */
   validate(raw: Readonly<Record<string, unknown>>, problems: ProblemList): ModelSpec | undefined;
   /** the canonical form of an already valid section (used by normalizeSweep) */

@@ -6,6 +6,7 @@
 import { DEEP_ONSET_MODES, type DeepOnset } from '../physics/types.js';
 import { PARAM_NAMES, ParamError, resolveParams, type ParamName, type ParamOverrides } from '../physics/params.js';
 import { STEP_GPA_DEFAULT, STEP_GPA_MAX, STEP_GPA_MIN } from './limits.js';
+import { describeModelValidator, paramsSchema } from './json-schema.js';
 import { checkKeys, describeFound, isMapping, readChoice, readNumber, unknownKeyText, type ProblemList } from './problems.js';
 import type { ModelSpec } from './types.js';
 
@@ -31,8 +32,28 @@ export const THERMAL_MODES: readonly DecompressionModelSpec['thermal'][] = ['ise
 /** Allowed `model.water` values. */
 export const WATER_MODES: readonly DecompressionModelSpec['water'][] = ['batch', 'fractional'];
 
-/** Validate `model`; absent means thermal auto, water batch, no overrides, step 0.05 GPa. */
-export function validateModel(raw: unknown, problems: ProblemList): DecompressionModelSpec | undefined {
+/**
+ * Validate `model`; absent means thermal auto, water batch, no overrides, step 0.05 GPa.
+ * Carries the JSON Schema of its keys (built from the same constants) for `meltsweep schema`.
+ */
+export const validateModel = describeModelValidator(validateDecompressionModel, {
+  thermal: {
+    enum: THERMAL_MODES,
+    default: 'auto',
+    description: 'temperature path: isentropic, conductive (needs an upwelling rate), or auto (conductive when an upwelling rate is given)',
+  },
+  water: { enum: WATER_MODES, default: 'batch', description: 'water partitioning between residue and melt: batch, or fractional (isentropic column only)' },
+  params: paramsSchema(),
+  step_gpa: {
+    type: 'number',
+    minimum: STEP_GPA_MIN,
+    maximum: STEP_GPA_MAX,
+    default: STEP_GPA_DEFAULT,
+    description: `pressure step of the isentropic column, GPa (${STEP_GPA_MIN}-${STEP_GPA_MAX})`,
+  },
+});
+
+function validateDecompressionModel(raw: unknown, problems: ProblemList): DecompressionModelSpec | undefined {
   if (raw !== undefined && raw !== null && !isMapping(raw)) {
     problems.add('model', `${describeFound(raw)} is not a mapping; write { thermal: ..., water: ..., params: { ... } }`);
     return undefined;
