@@ -116,6 +116,8 @@ async function runLocked(s: RunSetup, opts: RunOptions, t0: number): Promise<Run
   if (partial.kind === 'finished') return finishedSummary(s, t0);
   const { store, kept, repaired } = partial;
   const chunkSize = store.manifest.chunkSize;
+  // rows kept from an earlier process count as done, not as computed (rate and time left)
+  opts.progress?.replayed?.(kept.reduce((n, k) => n + (k.end - k.start), 0));
   const publication = await Publication.open(
     { start: s.rowStart, end: s.rowEnd },
     s.format,
