@@ -26,7 +26,8 @@ import { resolveReportOptions, type ReportOptions } from './report-options.js';
 import { metadataSection } from './report-metadata.js';
 import { readResultsColumns, readResultsInfo, type ResultsColumns } from './results-columns.js';
 import { mainEffectsSpec, sensitivityBarsSpec } from './sensitivity-bars.js';
-import { binnedMap, gridSliceMap, mapSubtitle, sweepMapSpec } from './sweep-map.js';
+import { binnedMap, gridSliceMap, mapSubtitle } from './sweep-map.js';
+import { sweepMapSpec } from './map-figure.js';
 
 /** Kinds of picture in a report, as in each figure's data-plot attribute. */
 export type ReportPlotKind = 'map' | 'main-effects' | 'indices' | 'column';
