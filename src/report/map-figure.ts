@@ -177,27 +177,44 @@ export function mapContourLines(map: SweepMapData, levels: readonly number[]): {
   return mapContours(map, x, y, levels).map((c) => ({ level: c.level, lines: c.lines.map((line) => line.map(([u, v]): [number, number] => [x.toValue(u), y.toValue(v)])) }));
 }
 
-/** Where a contour's label goes: the middle of its longest line, kept clear of the frame edges. */
+/**
+ * Where a contour's label goes: on its longest line, at a fraction of the line's length that
+ * differs from level to level (1/3 and 2/3 for two levels), so neighbouring contours do not put
+ * their labels side by side; kept clear of the frame edges.
+ */
 function labelPlaces(contours: readonly ContourLevel[], x: DrawAxis, y: DrawAxis, width: number, height: number, text: (level: number) => string): { u: number; v: number; text: string }[] {
   const pxX = width / (x.domain[1] - x.domain[0]);
   const pxY = height / (y.domain[1] - y.domain[0]);
+  const step = (a: readonly [number, number], b: readonly [number, number]) => Math.hypot((b[0] - a[0]) * pxX, (b[1] - a[1]) * pxY);
   const out: { u: number; v: number; text: string }[] = [];
-  for (const c of contours) {
+  contours.forEach((c, k) => {
     let best: readonly (readonly [number, number])[] | null = null;
     let bestLen = 0;
     for (const line of c.lines) {
       let len = 0;
-      for (let k = 1; k < line.length; k++) len += Math.hypot((line[k][0] - line[k - 1][0]) * pxX, (line[k][1] - line[k - 1][1]) * pxY);
-      if (len > bestLen) [best, bestLen] = [line, len];
+      for (let q = 1; q < line.length; q++) len += step(line[q - 1], line[q]);
+      if (best === null || len > bestLen) [best, bestLen] = [line, len];
     }
-    if (best === null) continue;
+    if (best === null) return;
+    // the point at this fraction of the line's length
+    let target = (bestLen * (k + 1)) / (contours.length + 1);
+    let [u, v] = best[0];
+    for (let q = 1; q < best.length; q++) {
+      const d = step(best[q - 1], best[q]);
+      if (d >= target && d > 0) {
+        const t = target / d;
+        [u, v] = [best[q - 1][0] + t * (best[q][0] - best[q - 1][0]), best[q - 1][1] + t * (best[q][1] - best[q - 1][1])];
+        break;
+      }
+      target -= d;
+      [u, v] = best[q];
+    }
     const label = text(c.level);
     const halfW = (textWidthPx(label, CONTOUR_LABEL_SIZE) / 2 + 3) / pxX;
     const halfH = (CONTOUR_LABEL_SIZE / 2 + 3) / pxY;
-    const clamp = (v: number, lo: number, hi: number) => (lo > hi ? (lo + hi) / 2 : Math.min(hi, Math.max(lo, v)));
-    const [u, v] = best[Math.floor(best.length / 2)];
+    const clamp = (w: number, lo: number, hi: number) => (lo > hi ? (lo + hi) / 2 : Math.min(hi, Math.max(lo, w)));
     out.push({ u: clamp(u, x.domain[0] + halfW, x.domain[1] - halfW), v: clamp(v, y.domain[0] + halfH, y.domain[1] - halfH), text: label });
-  }
+  });
   return out;
 }
 
