@@ -92,6 +92,13 @@ export interface ProcessDefinition<M = unknown> {
   inputsFor(model: ModelSpec): readonly InputDef[];
   /** its numeric result fields in table order (status and reason are common to all processes) */
   readonly results: readonly ResultDef[];
+  /**
+   * Optional: result fields that model options add after `results` (e.g. the capped-onset marks
+   * of `deep_onset: cap`), listed for labels and the README.
+   */
+  readonly optionalResults?: readonly ResultDef[];
+  /** Optional: the result fields under a model section (absent: always `results`); see resultsOf */
+  resultsFor?(model: ModelSpec): readonly ResultDef[];
   /** the statuses it can produce (a subset of COLUMN_STATUSES) */
   readonly statuses: readonly ColumnStatus[];
   readonly model: ProcessModelOptions;

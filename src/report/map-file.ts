@@ -4,8 +4,8 @@
  * a width. The CLI writes the file; export formats are src/report/export.ts.
  */
 import { InputError } from '../errors.js';
-import { processOfSpec } from '../process/registry.js';
-import { suggestName } from '../spec/suggest.js';
+import { resultsOfSpec } from '../process/registry.js';
+import { didYouMean } from '../spec/suggest.js';
 import { renderFigure } from './figure.js';
 import { mapFigureLayout } from './map-figure.js';
 import { resolveReportOptions } from './report-options.js';
@@ -36,11 +36,8 @@ export interface MapFileOptions {
 export async function renderMapFile(file: string, o: MapFileOptions): Promise<RenderedSvg & { readonly map: SweepMapData; readonly notes: readonly string[] }> {
   const info = await readResultsInfo(file);
   const { spec, meta } = info;
-  const results = processOfSpec(spec).results.map((r) => r.name);
-  if (!results.includes(o.z)) {
-    const near = suggestName(o.z, results);
-    throw new InputError(`--z: ${JSON.stringify(o.z)} is not an output column of this table${near === null ? '' : `; did you mean ${near}?`} (outputs: ${results.join(', ')})`);
-  }
+  const results = resultsOfSpec(spec).map((r) => r.name);
+  if (!results.includes(o.z)) throw new InputError(`--z: ${JSON.stringify(o.z)} is not an output column of this table; ${didYouMean(o.z, results)}outputs: ${results.join(', ')}`);
   if (!info.outputsWithValues.includes(o.z)) throw new InputError(`--z: ${o.z} holds no values in ${file}; outputs with values: ${info.outputsWithValues.join(', ') || 'none'}`);
   const opts = resolveReportOptions({ outputs: [o.z], x: o.x, y: o.y, at: o.at }, spec, info.outputsWithValues, file);
   if (opts.x === null || opts.y === null) {

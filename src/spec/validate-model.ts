@@ -3,6 +3,7 @@
  * `resolveParams` (ranges and relations live there, once); this file only adds the path
  * prefix and "did you mean" for unknown parameter names.
  */
+import { DEEP_ONSET_MODES, type DeepOnset } from '../physics/types.js';
 import { PARAM_NAMES, ParamError, resolveParams, type ParamName, type ParamOverrides } from '../physics/params.js';
 import { STEP_GPA_DEFAULT, STEP_GPA_MAX, STEP_GPA_MIN } from './limits.js';
 import { describeModelValidator, paramsSchema } from './json-schema.js';
@@ -17,10 +18,15 @@ export interface DecompressionModelSpec extends ModelSpec {
   readonly water: 'batch' | 'fractional';
   /** isentropic pressure step, GPa (default 0.05, allowed 0.001-0.5) */
   readonly step_gpa: number;
+  /**
+   * onsets deeper than the model range: 'drop' (default, not written when normalized, so older
+   * sweeps keep their JSON, hash and table columns) or 'cap' (computed from 8 GPa up, marked)
+   */
+  readonly deep_onset?: DeepOnset;
 }
 
 /** Keys of the `model` section. */
-export const MODEL_KEYS = ['thermal', 'water', 'params', 'step_gpa'] as const;
+export const MODEL_KEYS = ['thermal', 'water', 'params', 'step_gpa', 'deep_onset'] as const;
 /** Allowed `model.thermal` values. */
 export const THERMAL_MODES: readonly DecompressionModelSpec['thermal'][] = ['isentropic', 'conductive', 'auto'];
 /** Allowed `model.water` values. */
@@ -45,6 +51,11 @@ export const validateModel = describeModelValidator(validateDecompressionModel, 
     default: STEP_GPA_DEFAULT,
     description: `pressure step of the isentropic column, GPa (${STEP_GPA_MIN}-${STEP_GPA_MAX})`,
   },
+  deep_onset: {
+    enum: DEEP_ONSET_MODES,
+    default: 'drop',
+    description: 'onsets deeper than 8 GPa: drop (onset_beyond_range rows) or cap (computed from 8 GPa up, marked onset_capped)',
+  },
 });
 
 function validateDecompressionModel(raw: unknown, problems: ProblemList): DecompressionModelSpec | undefined {
@@ -59,10 +70,11 @@ function validateDecompressionModel(raw: unknown, problems: ProblemList): Decomp
   const water = body.water === undefined ? 'batch' : readChoice(body.water, WATER_MODES, 'model.water', problems, 'a water mode');
   const step = body.step_gpa === undefined ? STEP_GPA_DEFAULT : readStep(body.step_gpa, problems);
   const params = body.params === undefined || body.params === null ? {} : validateParams(body.params, problems);
-  if (problems.count !== before || thermal === undefined || water === undefined || step === undefined || params === undefined) {
+  const deep = body.deep_onset === undefined ? 'drop' : readChoice(body.deep_onset, DEEP_ONSET_MODES, 'model.deep_onset', problems, 'a deep-onset mode');
+  if (problems.count !== before || thermal === undefined || water === undefined || step === undefined || params === undefined || deep === undefined) {
     return undefined;
   }
-  return { thermal, water, params, step_gpa: step };
+  return deep === 'drop' ? { thermal, water, params, step_gpa: step } : { thermal, water, params, step_gpa: step, deep_onset: deep };
 }
 
 function readStep(raw: unknown, problems: ProblemList): number | undefined {
@@ -115,5 +127,6 @@ export function normalizeDecompressionModel(model: DecompressionModelSpec): Deco
     const v = model.params[name];
     if (v !== undefined) params[name] = v;
   }
-  return { thermal: model.thermal, water: model.water, params, step_gpa: model.step_gpa };
+  const base = { thermal: model.thermal, water: model.water, params, step_gpa: model.step_gpa };
+  return model.deep_onset === undefined || model.deep_onset === 'drop' ? base : { ...base, deep_onset: model.deep_onset };
 }

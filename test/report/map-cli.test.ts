@@ -81,7 +81,7 @@ describe('meltsweep plot map', () => {
     const run = (...args: string[]) => runCliSync(['plot', 'map', results, '-o', out, ...args]);
     const cases: [string[], string][] = [
       [['--z', 'crust'], '--z: "crust" is not an output column of this table; did you mean crust_km?'],
-      [['--z', 'crust_km', '--x', 'tp'], '--x: "tp" is not an input; swept inputs: tp_c, water_ppm, lid_km; did you mean tp_c?'],
+      [['--z', 'crust_km', '--x', 'tp'], '--x: "tp" is not an input; did you mean tp_c? swept inputs: tp_c, water_ppm, lid_km'],
       [['--z', 'crust_km', '--contour', '7,deep'], '--contour: "deep" is not a number'],
       [['--z', 'crust_km', '--at', 'lid_km=90'], '--at: lid_km=90 km is outside the swept range 0-20 km'],
       [['--z', 'crust_km', '--width', '3km'], '--width: "3km" is not a width'],
@@ -133,7 +133,7 @@ describe('meltsweep report --contour and --figures', () => {
   it('checks --contour, --width and --figures with clear messages', () => {
     const html = path.join(dir, 'bad.html');
     const cases: [string[], string][] = [
-      [['--contour', 'crustkm=7'], '--contour: "crustkm" is not an output column; allowed: '],
+      [['--contour', 'crustkm=7'], '--contour: "crustkm" is not an output column; did you mean crust_km? allowed: '],
       [['--outputs', 'f_max', '--contour', 'crust_km=7'], '--contour: crust_km is not among the outputs drawn (f_max); add it with --outputs'],
       [['--contour', '7'], '--contour: "7" is not allowed; give output=value pairs, e.g. crust_km=7 or crust_km=7,9'],
       [['--width', '85mm'], '--width: applies to the files of --figures DIR; give --figures too'],
@@ -144,7 +144,6 @@ describe('meltsweep report --contour and --figures', () => {
       expect(r.status, args.join(' ')).toBe(2);
       expect(r.stderr).toContain(message);
     }
-    expect(runCliSync(['report', results, '-o', html, '--contour', 'crustkm=7']).stderr).toContain('did you mean crust_km?');
     expect(fs.existsSync(html)).toBe(false);
   });
 });

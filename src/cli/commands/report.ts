@@ -6,6 +6,7 @@ import type { Command } from 'commander';
 import { InputError } from '../../errors.js';
 import { parseDpiOption, parseWidthOption, type ExportSize } from '../../report/export-options.js';
 import { parseAtOption, parseContourOption } from '../../report/report-options.js';
+import { CAPPED_HELP, parseCappedOption, type CappedChoice } from '../../run/capped-rows.js';
 import { parseNumberOption } from '../options.js';
 
 interface ReportCliOptions {
@@ -22,6 +23,7 @@ interface ReportCliOptions {
   width?: string;
   dpi?: string;
   force?: boolean;
+  capped?: CappedChoice;
 }
 
 /** The export size of `report --figures`. @throws InputError for --width/--dpi without --figures */
@@ -71,6 +73,7 @@ export function registerReport(program: Command): void {
     .option('--width <width>', '--figures: figure width, physical (85mm, 17.8cm, 3.35in; maps and column diagrams are laid out to it) or PNG pixels (1200px)')
     .option('--dpi <n>', '--figures: PNG resolution in dots per inch (default 300)')
     .option('--force', '--figures: replace existing figure files')
+    .option('--capped <choice>', CAPPED_HELP, parseCappedOption)
     .action(async (results: string, o: ReportCliOptions) => {
       const out = o.output ?? reportPathFor(results);
       if (!/\.html?$/i.test(out)) throw new InputError(`-o: ${JSON.stringify(out)} is not allowed; the report is an HTML file: give a name ending in .html`);
@@ -91,6 +94,7 @@ export function registerReport(program: Command): void {
         seed: o.seed,
         title: o.title,
         contours,
+        capped: o.capped,
       });
       process.stdout.write(`report: ${out} (${report.plots.length} pictures)\n`);
       if (o.figures !== undefined) {
