@@ -26,9 +26,16 @@ export function addFigureSizeOptions(cmd: Command): Command {
 
 /** Refuse to replace an existing file without --force, and a missing folder. @throws InputError naming the option */
 export function checkOutputFile(option: string, file: string, force: boolean | undefined): void {
+  if (file.trim() === '') throw new InputError(`${option}: the file name is empty`);
   const dir = path.dirname(path.resolve(file));
   if (!fs.existsSync(dir) || !fs.statSync(dir).isDirectory()) throw new InputError(`${option}: folder ${dir} does not exist`);
-  if (fs.existsSync(file) && !force) throw new InputError(`${option}: ${file} already exists; give --force to replace it`);
+  if (fs.statSync(file, { throwIfNoEntry: false })?.isDirectory() === true) throw new InputError(`${option}: ${file} is a folder; give a file name`);
+  const link = fs.lstatSync(file, { throwIfNoEntry: false });
+  if (link === undefined || force) return;
+  if (link.isSymbolicLink() && !fs.existsSync(file)) {
+    throw new InputError(`${option}: ${file} is a symbolic link to a missing file (${fs.readlinkSync(file)}); give --force to replace the link`);
+  }
+  throw new InputError(`${option}: ${file} already exists; give --force to replace it`);
 }
 
 /**

@@ -4,7 +4,7 @@
  */
 import * as arrow from 'apache-arrow';
 import { REASON_FIELD, STATUS_FIELD } from '../physics/fields.js';
-import type { ChunkResult } from '../run/compute-chunk.js';
+import type { ChunkResult } from '../process/chunk-result.js';
 import { BLOCK_FIELD, STATUS_TYPE } from './arrow-schema.js';
 
 /** Validity bitmap of a float column where NaN marks null; undefined when nothing is null. */

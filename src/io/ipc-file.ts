@@ -196,8 +196,3 @@ export async function* readIpcBatches(filePath: string): AsyncGenerator<arrow.Re
     await handle.close().catch(() => undefined);
   }
 }
-
-/** A whole IPC table in memory (for analysis and tests of small outputs). */
-export function readIpcTable(filePath: string): arrow.Table {
-  return arrow.tableFromIPC(fs.readFileSync(filePath));
-}

@@ -8,7 +8,7 @@ import * as arrow from 'apache-arrow';
 import { PROFILE_TABLE_FIELDS } from '../physics/fields.js';
 import { depthKmFromPGpa } from '../physics/units.js';
 import type { MeltParams } from '../physics/params.js';
-import type { ChunkResult } from '../run/compute-chunk.js';
+import type { ChunkResult } from '../process/chunk-result.js';
 import { arrowField, META, resultsSchema, SCENARIO_ID_FIELD, type ResultsTableMeta } from './arrow-schema.js';
 import { nanValidity } from './arrow-batch.js';
 

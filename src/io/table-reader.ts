@@ -48,9 +48,15 @@ export async function readTableSchema(file: string): Promise<arrow.Schema> {
  */
 export async function* readTableBatches(file: string, columns?: readonly string[]): AsyncGenerator<arrow.RecordBatch> {
   const format = detectTableFormat(file);
-  if (format === 'parquet') yield* readParquetBatches(file, undefined, columns);
-  else if (format === 'csv') yield* readCsvBatches(file);
-  else yield* readIpcBatches(file);
+  try {
+    if (format === 'parquet') yield* readParquetBatches(file, undefined, columns);
+    else if (format === 'csv') yield* readCsvBatches(file);
+    else yield* readIpcBatches(file);
+  } catch (err) {
+    // only reading errors arrive here (a consumer's own errors do not pass through the generator)
+    if (err instanceof InputError) throw err;
+    throw new InputError(`${file}: cannot read its rows (${err instanceof Error ? err.message : String(err)}); the file is truncated or damaged`);
+  }
 }
 
 async function withContext<T>(file: string, fn: () => Promise<T>): Promise<T> {

@@ -4,13 +4,6 @@
  */
 import type { AxisSpec } from '../spec/types.js';
 
-/** The value of one unit coordinate on an axis. */
-export function unitToAxis(axis: Pick<AxisSpec, 'min' | 'max' | 'scale'>, u: number): number {
-  const { min, max } = axis;
-  const v = axis.scale === 'log' ? min * Math.exp(u * Math.log(max / min)) : min + u * (max - min);
-  return v < max ? v : max;
-}
-
 /**
  * Replace the unit coordinates col[start .. end) by their axis values, in place. One tight loop
  * per scale (no per-element calls), so mapping a million values takes a few milliseconds.

@@ -67,7 +67,16 @@ export const decompression: ProcessDefinition<ModelOptions> = {
       return `thermal ${model.thermal}, water ${model.water}, step ${model.step_gpa} GPa${deep}`;
     },
     checkInputs(model, given, problems) {
-      if ((model as DecompressionModelSpec).thermal !== 'conductive' || given.has('upwelling_mm_yr')) return;
+      const m = model as DecompressionModelSpec;
+      const conductive = m.thermal === 'conductive' || (m.thermal === 'auto' && given.has('upwelling_mm_yr'));
+      if (m.water === 'fractional' && conductive) {
+        const why = m.thermal === 'auto' ? ' (thermal auto picks the conductive column because an upwelling rate is given)' : '';
+        problems.add(
+          'model.water',
+          `"fractional" cannot run with a conductive column${why}: the conductive model computes batch water only; use water: batch, or thermal: isentropic`,
+        );
+      }
+      if (m.thermal !== 'conductive' || given.has('upwelling_mm_yr')) return;
       problems.add('model.thermal', '"conductive" needs an upwelling rate; sweep upwelling_mm_yr under axes or set it under fixed');
     },
   },

@@ -6,7 +6,7 @@
  */
 import type { FieldInfo } from '../physics/fields.js';
 import type { ColumnStatus } from '../physics/types.js';
-import type { ProfileSamples } from '../run/profile-sampling.js';
+import type { ProfileSamples } from './chunk-result.js';
 import type { ProblemList } from '../spec/problems.js';
 import type { ModelSpec } from '../spec/types.js';
 

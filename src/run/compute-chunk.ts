@@ -10,29 +10,15 @@ import { processOfSpec, resultsOf } from '../process/registry.js';
 import type { AnyProcess, ProcessResult } from '../process/types.js';
 import type { SweepSpec } from '../spec/types.js';
 import { profileGridPressures, type ProfileGrid } from './profile-grid.js';
-import { allocateProfileSamples, clearProfileRow, type ProfileSamples } from './profile-sampling.js';
+import { allocateProfileSamples, clearProfileRow } from './profile-sampling.js';
+import type { ChunkResult } from '../process/chunk-result.js';
 
 export const STATUS_CODE: Readonly<Record<ColumnStatus, number>> = Object.freeze(
   Object.fromEntries(COLUMN_STATUSES.map((s, i) => [s, i])) as Record<ColumnStatus, number>,
 );
 export const FAILED_CODE = STATUS_CODE.failed;
 
-/** Results of scenarios [start, end). Numeric arrays hold NaN where the value is null. */
-export interface ChunkResult {
-  readonly start: number;
-  readonly end: number;
-  readonly points: PointBatch;
-  /** index into COLUMN_STATUSES */
-  readonly status: Uint8Array;
-  /** one array per result field of the sweep's process, by name */
-  readonly numeric: Readonly<Record<string, Float64Array>>;
-  /** reasons of failed / out-of-range rows, by offset within the chunk */
-  readonly reasons: ReadonlyArray<readonly [number, string]>;
-  /** thread CPU time spent on the columns, ms */
-  readonly computeMs: number;
-  /** the columns sampled on the profile grid (only when the run asks for profiles) */
-  readonly profiles?: ProfileSamples;
-}
+export type { ChunkResult } from '../process/chunk-result.js';
 
 /** What a column computation needs besides the points: built once per spec. */
 export interface ChunkContext {

@@ -18,16 +18,10 @@ import { adiabatTempC } from '../physics/adiabat.js';
 import type { MeltParams } from '../physics/params.js';
 import type { ColumnResult, ThermalModel } from '../physics/types.js';
 import { pGpaFromDepthKm } from '../physics/units.js';
+import type { ProfileSamples } from '../process/chunk-result.js';
 
 /** The sampled values of a chunk, row-major: scenario i, grid point j at index i * points + j. */
-export interface ProfileSamples {
-  /** grid points per scenario */
-  readonly points: number;
-  readonly t_c: Float64Array;
-  readonly f: Float64Array;
-  readonly h2o_melt_wt_pct: Float64Array;
-  readonly productivity_pct_per_gpa: Float64Array;
-}
+export type { ProfileSamples } from '../process/chunk-result.js';
 
 /** Profile samples of n scenarios on a grid of `points` pressures, every value null (NaN). */
 export function allocateProfileSamples(n: number, points: number): ProfileSamples {

@@ -4,6 +4,12 @@
  * the point count is ever materialised.
  */
 
+/**
+ * Largest sweep file read, bytes (4 MiB): a sweep describes axes, not data; the largest sensible
+ * one (a few axes of MAX_AXIS_VALUES listed values) is about 2 MB.
+ */
+export const MAX_SWEEP_FILE_BYTES = 4 * 1024 * 1024;
+
 /** Largest number of points a plan may have (2^40, about 1.1e12). */
 export const MAX_POINTS = 2 ** 40;
 

@@ -2,11 +2,12 @@
  * Sweep file text (YAML or JSON) -> plain data -> validated SweepSpec. Syntax errors name the
  * file, line and column: `ridge.yaml:4:1: YAML syntax error: ...`.
  */
-import { readFile } from 'node:fs/promises';
+import { open } from 'node:fs/promises';
 import { basename, extname } from 'node:path';
 import { parseDocument } from 'yaml';
 import { InputError } from '../errors.js';
 import { findJsonSyntaxError } from './json-syntax.js';
+import { MAX_SWEEP_FILE_BYTES } from './limits.js';
 import { positionAt } from './text-position.js';
 import type { SweepSpec } from './types.js';
 import { validateSweep } from './validate.js';
@@ -44,14 +45,20 @@ function at(text: string, sourceName: string, offset: number): string {
 }
 
 function parseJson(text: string, sourceName: string): unknown {
+  let data: unknown;
   try {
-    return JSON.parse(text) as unknown;
+    data = JSON.parse(text) as unknown;
   } catch (err) {
     const found = findJsonSyntaxError(text);
     if (found !== null) throw new InputError(`${at(text, sourceName, found.offset)}: JSON syntax error: ${found.message}`);
     // the scanner accepts everything JSON.parse accepts; keep the runtime's words if they ever differ
     throw new InputError(`${sourceName}: JSON syntax error: ${err instanceof Error ? err.message : String(err)}`);
   }
+  // JSON.parse keeps the last of two equal keys without a word; YAML refuses them, and so does this
+  // (JSON is YAML 1.2, so the YAML parser finds them with their position)
+  const dup = parseDocument(text, { prettyErrors: false, uniqueKeys: true }).errors.find((e) => e.code === 'DUPLICATE_KEY');
+  if (dup !== undefined) throw new InputError(`${at(text, sourceName, dup.pos[0])}: JSON error: a key appears twice in one object; keep one`);
+  return data;
 }
 
 function parseYaml(text: string, sourceName: string): unknown {
@@ -84,13 +91,50 @@ export function parseSweepText(text: string, sourceName: string): SweepSpec {
  * @throws InputError when the file cannot be read or is not a valid sweep.
  */
 export async function loadSweepFile(path: string): Promise<SweepSpec> {
-  let text: string;
+  return parseSweepText(await readSweepText(path), path);
+}
+
+/**
+ * The text of a sweep file, checked before it is parsed: a regular file (not a device, pipe or
+ * folder) of at most MAX_SWEEP_FILE_BYTES, read no further than that, holding UTF-8 text.
+ * @throws InputError naming the file and what is wrong
+ */
+export async function readSweepText(path: string): Promise<string> {
+  let bytes: Buffer;
   try {
-    text = await readFile(path, 'utf8');
+    const fh = await open(path, 'r');
+    try {
+      const st = await fh.stat();
+      if (st.isDirectory()) throw new InputError(`${path}: cannot read the sweep file (it is a directory)`);
+      if (!st.isFile()) throw new InputError(`${path}: not a regular file (a device, pipe or socket); give a sweep file (YAML or JSON)`);
+      const limit = MAX_SWEEP_FILE_BYTES;
+      if (st.size > limit) throw new InputError(`${path}: ${formatBytes(st.size)} is too large for a sweep file; at most ${formatBytes(limit)} (a sweep describes axes, not data)`);
+      const buf = Buffer.alloc(limit + 1);
+      let n = 0;
+      for (;;) {
+        const { bytesRead } = await fh.read(buf, n, buf.length - n, n);
+        if (bytesRead === 0) break;
+        n += bytesRead;
+        if (n > limit) throw new InputError(`${path}: more than ${formatBytes(limit)}; a sweep file holds at most that (a sweep describes axes, not data)`);
+      }
+      bytes = buf.subarray(0, n);
+    } finally {
+      await fh.close();
+    }
   } catch (err) {
+    if (err instanceof InputError) throw err;
     const code = (err as NodeJS.ErrnoException).code;
     const why = code === 'ENOENT' ? 'no such file' : code === 'EISDIR' ? 'it is a directory' : code === 'EACCES' ? 'permission denied' : String((err as Error).message);
     throw new InputError(`${path}: cannot read the sweep file (${why})`);
   }
-  return parseSweepText(text, path);
+  if (bytes.includes(0)) throw new InputError(`${path}: not a text file (it holds NUL bytes); a sweep file is YAML or JSON text`);
+  try {
+    return new TextDecoder('utf-8', { fatal: true }).decode(bytes);
+  } catch {
+    throw new InputError(`${path}: not UTF-8 text; a sweep file is YAML or JSON text in UTF-8`);
+  }
+}
+
+function formatBytes(n: number): string {
+  return n >= 1024 * 1024 ? `${(n / (1024 * 1024)).toFixed(1)} MiB` : `${n} bytes`;
 }

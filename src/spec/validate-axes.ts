@@ -256,6 +256,15 @@ function expandStep(
   const nearest = Math.round(ratio);
   const lands = Math.abs(ratio - nearest) <= 1e-9 * Math.max(1, nearest);
   const n = (lands ? nearest : Math.floor(ratio)) + 1;
+  if (!lands) {
+    const last = tidy(from + (n - 1) * step);
+    problems.add(
+      path,
+      `${step} does not divide the range ${from} to ${to}: the values would stop at ${last} and leave ${to} out; ` +
+        `give a step that lands on ${to}, use count, or write to: ${last} if that is what you want`,
+    );
+    return undefined;
+  }
   if (n > MAX_AXIS_VALUES) {
     problems.add(path, `${step} gives ${n} values from ${from} to ${to}; at most ${MAX_AXIS_VALUES} per axis`);
     return undefined;

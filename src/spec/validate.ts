@@ -95,6 +95,13 @@ function validateName(raw: unknown, fallback: string, problems: ProblemList): st
     problems.add('name', `text of ${raw.length} characters is too long; at most ${MAX_NAME_LENGTH}`);
     return undefined;
   }
+  // eslint-disable-next-line no-control-regex
+  const control = /[\u0000-\u001f\u007f-\u009f]/.exec(raw);
+  if (control !== null) {
+    const code = `U+${control[0].charCodeAt(0).toString(16).toUpperCase().padStart(4, '0')}`;
+    problems.add('name', `holds a control character (${code}) at position ${control.index + 1}; the name is printed and written into files, use plain text on one line`);
+    return undefined;
+  }
   return raw;
 }
 

@@ -7,6 +7,7 @@ import { InputError } from '../../errors.js';
 import { parseDpiOption, parseWidthOption, type ExportSize } from '../../report/export-options.js';
 import { parseAtOption, parseContourOption } from '../../report/report-options.js';
 import { CAPPED_HELP, parseCappedOption, type CappedChoice } from '../../run/capped-rows.js';
+import { checkOutputFile } from '../figure-output.js';
 import { parseNumberOption } from '../options.js';
 
 interface ReportCliOptions {
@@ -72,11 +73,12 @@ export function registerReport(program: Command): void {
     .option('--figures <dir>', 'also write every figure of the report into DIR as SVG, PNG and PDF files (NN-KIND-OUTPUT.svg|png|pdf)')
     .option('--width <width>', '--figures: figure width, physical (85mm, 17.8cm, 3.35in; maps and column diagrams are laid out to it) or PNG pixels (1200px)')
     .option('--dpi <n>', '--figures: PNG resolution in dots per inch (default 300)')
-    .option('--force', '--figures: replace existing figure files')
+    .option('--force', 'replace an existing report file and, with --figures, existing figure files')
     .option('--capped <choice>', CAPPED_HELP, parseCappedOption)
     .action(async (results: string, o: ReportCliOptions) => {
       const out = o.output ?? reportPathFor(results);
       if (!/\.html?$/i.test(out)) throw new InputError(`-o: ${JSON.stringify(out)} is not allowed; the report is an HTML file: give a name ending in .html`);
+      checkOutputFile('-o', out, o.force);
       const size = figuresSize(o);
       const contours = parseContourOption(o.contour);
       if (o.figures !== undefined) {
