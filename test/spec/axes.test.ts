@@ -21,8 +21,11 @@ describe('axis ranges', () => {
     expect(axis('upwelling_mm_yr', { from: 0.3, to: 0.9, step: 0.2 }).values).toEqual([0.3, 0.5, 0.7, 0.9]);
   });
 
-  it('a step that does not land on `to` stops before it', () => {
-    expect(axis('lid_km', { from: 0, to: 10, step: 3 }).values).toEqual([0, 3, 6, 9]);
+  it('a step that does not land on `to` is refused (ranges include `to`), naming the last value it would reach', () => {
+    expect(() => axis('lid_km', { from: 0, to: 10, step: 3 })).toThrow(
+      'axes.lid_km.step: 3 does not divide the range 0 to 10: the values would stop at 9 and leave 10 out; give a step that lands on 10, use count, or write to: 9 if that is what you want',
+    );
+    expect(axis('lid_km', { from: 0, to: 9, step: 3 }).values).toEqual([0, 3, 6, 9]);
   });
 
   it('descending ranges with a negative step', () => {
