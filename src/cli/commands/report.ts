@@ -78,13 +78,13 @@ export function registerReport(program: Command): void {
     .action(async (results: string, o: ReportCliOptions) => {
       const out = o.output ?? reportPathFor(results);
       if (!/\.html?$/i.test(out)) throw new InputError(`-o: ${JSON.stringify(out)} is not allowed; the report is an HTML file: give a name ending in .html`);
-      checkOutputFile('-o', out, o.force);
       const size = figuresSize(o);
       const contours = parseContourOption(o.contour);
       if (o.figures !== undefined) {
         const { checkFiguresDir } = await import('../../report/report-figures.js');
         checkFiguresDir(o.figures, o.force);
       }
+      checkOutputFile('-o', out, o.force);
       // the plotting libraries load only when a report is written (they add ~0.3 s to start-up)
       const { writeHtmlReport } = await import('../../report/html-report.js');
       const report = await writeHtmlReport(results, out, {
