@@ -58,7 +58,7 @@ export interface ProcessModelOptions {
    * return its normalized, JSON-plain form (key order fixed; `process` omitted for the default
    * process so stored specs and hashes of older files do not change), or undefined on a problem.
    */
-  validate(raw: Readonly<Record<string, unknown>>, problems: ProblemList): ModelSpec | undefined;
+  validate(raw: Readonly<Record<string, unknown>>, problems: ProblemList, context?: ModelContext): ModelSpec | undefined;
   /** the canonical form of an already valid section (used by normalizeSweep) */
   normalize(model: ModelSpec): ModelSpec;
   /**
@@ -68,6 +68,36 @@ export interface ProcessModelOptions {
   checkInputs?(model: ModelSpec, given: ReadonlySet<string>, problems: ProblemList): void;
   /** the options in words for `plan` (e.g. "thermal auto, water batch, step 0.05 GPa"); absent: "key value" pairs */
   summary?(model: ModelSpec): string;
+  /**
+   * Optional: options of `meltsweep column` that set model keys of this process (e.g. --heat sets
+   * `heat`). The value is handed to `validate` as text (or as { file } for `file` flags, a path
+   * relative to the working folder). Decompression's --mode, --thermal and --step are built in.
+   */
+  readonly cliFlags?: readonly ModelFlag[];
+  /**
+   * Optional: words added to "X is not an input of process P; its inputs: ..." when the model
+   * options removed inputs (e.g. "the geotherm table sets the temperatures"); null for none.
+   */
+  inputsNote?(model: ModelSpec): string | null;
+}
+
+/** Where a model section comes from, for options that name files. */
+export interface ModelContext {
+  /** folder that relative file names in the section start from (the sweep file's folder); default: the working folder */
+  readonly baseDir?: string;
+}
+
+/** A `meltsweep column` option that sets one model key of a process. */
+export interface ModelFlag {
+  /** the option without dashes, e.g. 'heat' */
+  readonly flag: string;
+  /** the model key it sets */
+  readonly key: string;
+  /** the value placeholder in the help text, e.g. 'mode' or 'file.csv' */
+  readonly placeholder: string;
+  readonly description: string;
+  /** 'text': the value as given; 'file': the value becomes { file: VALUE } */
+  readonly kind: 'text' | 'file';
 }
 
 /** How a run asks for a process's runtime model. */
