@@ -37,7 +37,8 @@
 import { adiabatTempK } from './adiabat.js';
 import { IsentropicStepper } from './isentropic-step.js';
 import { setMeltingCurves, waterSaturationLowerBound, waterSaturationSlope, waterSaturationWtPct } from './melting.js';
-import { findMeltOnset } from './onset.js';
+import { cappedStart, type PathStart } from './capped-onset.js';
+import { beyondRangeReason, findMeltOnset } from './onset.js';
 import type { MeltParams } from './params.js';
 import { failedResult, meltingResult, noMeltResult, onsetBeyondRangeResult } from './column-result.js';
 import { MODEL_MAX_P_GPA, type ColumnProfile, type ColumnResult, type ModelOptions, type Scenario, type WaterMode } from './types.js';
@@ -92,6 +93,8 @@ function onsetIntervalIntegral(yEnd: number, slopeEnd: number, h: number, beta1:
  * @param p parameter set
  * @param stepGpa pressure step, GPa (default DEFAULT_STEP_GPA)
  * @param withProfile also return the arrays along the path (the only allocation proportional to steps)
+ * @param start state at onsetPGpa when melting is already under way there (a capped onset,
+ *   capped-onset.ts); absent: F = 0 on the solid adiabat
  */
 export function integrateIsentropicPath(
   tpC: number,
@@ -102,6 +105,7 @@ export function integrateIsentropicPath(
   p: MeltParams,
   stepGpa: number = DEFAULT_STEP_GPA,
   withProfile = false,
+  start?: PathStart,
 ): IsentropicPath {
   const span = onsetPGpa - topPGpa;
   if (!(span > 0)) throw new Error(`isentropic path: onset ${onsetPGpa} GPa is not below top ${topPGpa} GPa`);
@@ -114,15 +118,16 @@ export function integrateIsentropicPath(
   const D = p.D_H2O;
   const x0 = bulkWaterWtPct;
 
-  let f0 = 0;
-  let t0K = adiabatTempK(tpC, onsetPGpa, p);
-  let xr0 = x0;
+  const fStart = start?.f ?? 0;
+  let f0 = fStart;
+  let t0K = start?.tK ?? adiabatTempK(tpC, onsetPGpa, p);
+  let xr0 = start?.xResidueWtPct ?? x0;
   const xs0 = waterSaturationWtPct(onsetPGpa, p);
-  let xm0 = x0 > 0 ? Math.min(x0 / D, xs0) : 0;
-  let w0 = 0; // water carried by the melt per unit mass of source
+  let xm0 = start?.xMeltWtPct ?? (x0 > 0 ? Math.min(x0 / D, xs0) : 0);
+  let w0 = start?.waterExtractedWtPct ?? 0; // water carried by the melt per unit mass of source
   let meltInt = 0;
   let waterInt = 0;
-  let fMax = 0;
+  let fMax = fStart;
   let lastDf = 0;
   let lastDp = 0;
   let fpPrev = Number.NaN;
@@ -131,12 +136,12 @@ export function integrateIsentropicPath(
   setMeltingCurves(s.curves, onsetPGpa, p);
   s.xs = xs0;
   s.xsPath = xs0;
-  s.f0 = 0;
-  s.xr0 = x0;
+  s.f0 = fStart;
+  s.xr0 = xr0;
   s.dPPa = 0;
   s.logT0 = Math.log(t0K);
-  s.residual(0);
-  let fp0 = s.slopes(0, onsetPGpa);
+  s.residual(fStart);
+  let fp0 = s.slopes(fStart, onsetPGpa);
   let wp0 = s.wP;
 
   let prof: { p_gpa: Float64Array; depth_km: Float64Array; t_c: Float64Array; f: Float64Array; h2o_melt_wt_pct: Float64Array } | undefined;
@@ -146,7 +151,7 @@ export function integrateIsentropicPath(
     prof.p_gpa[0] = onsetPGpa;
     prof.depth_km[0] = depthKmFromPGpa(onsetPGpa, p.rho_s, p.g);
     prof.t_c[0] = t0K - KELVIN_OFFSET;
-    prof.f[0] = 0;
+    prof.f[0] = fStart;
     prof.h2o_melt_wt_pct[0] = xm0;
   }
 
@@ -216,7 +221,7 @@ export function integrateIsentropicPath(
     } else if (!s.fractional && s.sat && s.xm > 0) {
       wp1 = f1 * waterSaturationSlope(p1, p); // batch with F held: W = F X_sat(P)
     }
-    if (k === 1 && onCurve && p.beta1 > 1 && Number.isFinite(fp1) && Number.isFinite(wp1)) {
+    if (k === 1 && fStart === 0 && onCurve && p.beta1 > 1 && Number.isFinite(fp1) && Number.isFinite(wp1)) {
       // onset interval: F (and W) start as a Delta^beta1 + b Delta^(2 beta1 - 1), Delta = P_onset - P
       // (T - T_solidus ~ F^(1/beta1) + F); fit both terms to the value and slope at the step end
       meltInt += onsetIntervalIntegral(f1, -fp1, dP, p.beta1);
@@ -292,16 +297,15 @@ export function isentropicColumn(scenario: Scenario, model: ModelOptions): Colum
     }
     const onset = findMeltOnset(tpC, x0, pTop, p);
     if (onset.kind === 'none') return noMeltResult(scenario.upwelling_mm_yr);
-    if (onset.kind === 'beyond') {
-      return onsetBeyondRangeResult(
-        `melting starts deeper than ${onset.pMaxGpa} GPa, the deepest pressure the model covers: ` +
-          `at ${onset.pMaxGpa} GPa the adiabat (${onset.tAdiabatC.toFixed(1)} degC) is already above the solidus (${onset.tSolidusC.toFixed(1)} degC)`,
-      );
-    }
-    const path = integrateIsentropicPath(tpC, x0, onset.pGpa, pTop, model.water, p, stepGpa, model.withProfile === true);
+    if (onset.kind === 'beyond' && model.deepOnset !== 'cap') return onsetBeyondRangeResult(beyondRangeReason(onset));
+    // a capped onset starts melted at the deepest covered pressure (capped-onset.ts)
+    const start = onset.kind === 'beyond' ? cappedStart(tpC, x0, onset.pMaxGpa, model.water, p) : undefined;
+    const onsetPGpa = onset.kind === 'beyond' ? onset.pMaxGpa : onset.pGpa;
+    const path = integrateIsentropicPath(tpC, x0, onsetPGpa, pTop, model.water, p, stepGpa, model.withProfile === true, start);
     return meltingResult(
       {
-        onsetPGpa: onset.pGpa,
+        onsetPGpa,
+        ...(start === undefined ? {} : { fOnset: start.f }),
         topPGpa: pTop,
         fMax: path.fMax,
         fTop: path.fTop,

@@ -9,6 +9,7 @@ import { PARAM_NAMES, type ParamName, type ParamOverrides } from '../physics/par
 import { checkKeys, describeFound, isMapping, readChoice, type ProblemList } from '../spec/problems.js';
 import type { ModelSpec } from '../spec/types.js';
 import { validateParams } from '../spec/validate-model.js';
+import { describeModelValidator, paramsSchema } from '../spec/json-schema.js';
 import { parseGeothermCsv, readGeothermFile, type GeothermTableSpec } from './flux-geotherm-file.js';
 import type { ModelContext } from './types.js';
 
@@ -25,8 +26,8 @@ export interface FluxModelSpec extends ModelSpec {
 /** Keys of a flux model section besides `process`. */
 export const FLUX_MODEL_KEYS = ['geotherm', 'heat', 'params'] as const;
 
-/** Validate a flux model section (see ProcessModelOptions.validate). */
-export function validateFluxModel(raw: Readonly<Record<string, unknown>>, problems: ProblemList, context: ModelContext = {}): FluxModelSpec | undefined {
+/** Validate a flux model section (see ProcessModelOptions.validate); wrapped below with its key schemas. */
+function validateFluxSection(raw: Readonly<Record<string, unknown>>, problems: ProblemList, context: ModelContext = {}): FluxModelSpec | undefined {
   const before = problems.count;
   checkKeys(raw, FLUX_MODEL_KEYS, 'model', problems);
   const heat = raw.heat === undefined ? 'balanced' : readChoice(raw.heat, FLUX_HEAT_MODES, 'model.heat', problems, 'a heat mode');
@@ -35,6 +36,21 @@ export function validateFluxModel(raw: Readonly<Record<string, unknown>>, proble
   if (problems.count !== before || heat === undefined || geotherm === undefined || params === undefined) return undefined;
   return normalizeFluxModel({ process: 'flux', geotherm, heat, params });
 }
+
+/** Validate a flux model section, carrying the JSON Schema of each key for `meltsweep schema`. */
+export const validateFluxModel = describeModelValidator(validateFluxSection, {
+  geotherm: {
+    description: 'the temperature profile of the column: lid-adiabat (default: linear in the plate, the adiabat of tp_c below), or { file: TABLE.csv } (columns depth_km or p_gpa, and t_c; relative to the sweep file; then tp_c and lid_km are not inputs)',
+    default: 'lid-adiabat',
+    anyOf: [
+      { const: 'lid-adiabat' },
+      { type: 'null' },
+      { type: 'object', required: ['file'], properties: { file: { type: 'string', minLength: 1 }, sha256: { type: 'string' }, axis: { enum: ['depth_km', 'p_gpa'] }, at: { type: 'array', items: { type: 'number' } }, t_c: { type: 'array', items: { type: 'number' } } }, additionalProperties: false },
+    ],
+  },
+  heat: { enum: [...FLUX_HEAT_MODES], default: 'balanced', description: 'balanced: melting takes its latent heat from the rock (entropy conserved at each depth); fixed: the rock stays on the geotherm' },
+  params: paramsSchema(),
+});
 
 function readGeotherm(raw: unknown, context: ModelContext, problems: ProblemList): FluxModelSpec['geotherm'] | undefined {
   if (raw === undefined || raw === null || raw === 'lid-adiabat') return 'lid-adiabat';

@@ -3,8 +3,10 @@
  * `resolveParams` (ranges and relations live there, once); this file only adds the path
  * prefix and "did you mean" for unknown parameter names.
  */
+import { DEEP_ONSET_MODES, type DeepOnset } from '../physics/types.js';
 import { PARAM_NAMES, ParamError, resolveParams, type ParamName, type ParamOverrides } from '../physics/params.js';
 import { STEP_GPA_DEFAULT, STEP_GPA_MAX, STEP_GPA_MIN } from './limits.js';
+import { describeModelValidator, paramsSchema } from './json-schema.js';
 import { checkKeys, describeFound, isMapping, readChoice, readNumber, unknownKeyText, type ProblemList } from './problems.js';
 import type { ModelSpec } from './types.js';
 
@@ -16,17 +18,42 @@ export interface DecompressionModelSpec extends ModelSpec {
   readonly water: 'batch' | 'fractional';
   /** isentropic pressure step, GPa (default 0.05, allowed 0.001-0.5) */
   readonly step_gpa: number;
+  /**
+   * onsets deeper than the model range: 'drop' (default, not written when normalized, so older
+   * sweeps keep their JSON, hash and table columns) or 'cap' (computed from 8 GPa up, marked)
+   */
+  readonly deep_onset?: DeepOnset;
 }
 
 /** Keys of the `model` section. */
-export const MODEL_KEYS = ['thermal', 'water', 'params', 'step_gpa'] as const;
+export const MODEL_KEYS = ['thermal', 'water', 'params', 'step_gpa', 'deep_onset'] as const;
 /** Allowed `model.thermal` values. */
 export const THERMAL_MODES: readonly DecompressionModelSpec['thermal'][] = ['isentropic', 'conductive', 'auto'];
 /** Allowed `model.water` values. */
 export const WATER_MODES: readonly DecompressionModelSpec['water'][] = ['batch', 'fractional'];
 
-/** Validate `model`; absent means thermal auto, water batch, no overrides, step 0.05 GPa. */
-export function validateModel(raw: unknown, problems: ProblemList): DecompressionModelSpec | undefined {
+/**
+ * Validate `model`; absent means thermal auto, water batch, no overrides, step 0.05 GPa.
+ * Carries the JSON Schema of its keys (built from the same constants) for `meltsweep schema`.
+ */
+export const validateModel = describeModelValidator(validateDecompressionModel, {
+  thermal: {
+    enum: THERMAL_MODES,
+    default: 'auto',
+    description: 'temperature path: isentropic, conductive (needs an upwelling rate), or auto (conductive when an upwelling rate is given)',
+  },
+  water: { enum: WATER_MODES, default: 'batch', description: 'water partitioning between residue and melt: batch, or fractional (isentropic column only)' },
+  params: paramsSchema(),
+  step_gpa: {
+    type: 'number',
+    minimum: STEP_GPA_MIN,
+    maximum: STEP_GPA_MAX,
+    default: STEP_GPA_DEFAULT,
+    description: `pressure step of the isentropic column, GPa (${STEP_GPA_MIN}-${STEP_GPA_MAX})`,
+  },
+});
+
+function validateDecompressionModel(raw: unknown, problems: ProblemList): DecompressionModelSpec | undefined {
   if (raw !== undefined && raw !== null && !isMapping(raw)) {
     problems.add('model', `${describeFound(raw)} is not a mapping; write { thermal: ..., water: ..., params: { ... } }`);
     return undefined;
@@ -38,10 +65,11 @@ export function validateModel(raw: unknown, problems: ProblemList): Decompressio
   const water = body.water === undefined ? 'batch' : readChoice(body.water, WATER_MODES, 'model.water', problems, 'a water mode');
   const step = body.step_gpa === undefined ? STEP_GPA_DEFAULT : readStep(body.step_gpa, problems);
   const params = body.params === undefined || body.params === null ? {} : validateParams(body.params, problems);
-  if (problems.count !== before || thermal === undefined || water === undefined || step === undefined || params === undefined) {
+  const deep = body.deep_onset === undefined ? 'drop' : readChoice(body.deep_onset, DEEP_ONSET_MODES, 'model.deep_onset', problems, 'a deep-onset mode');
+  if (problems.count !== before || thermal === undefined || water === undefined || step === undefined || params === undefined || deep === undefined) {
     return undefined;
   }
-  return { thermal, water, params, step_gpa: step };
+  return deep === 'drop' ? { thermal, water, params, step_gpa: step } : { thermal, water, params, step_gpa: step, deep_onset: deep };
 }
 
 function readStep(raw: unknown, problems: ProblemList): number | undefined {
@@ -95,5 +123,6 @@ export function normalizeDecompressionModel(model: DecompressionModelSpec): Deco
     const v = model.params[name];
     if (v !== undefined) params[name] = v;
   }
-  return { thermal: model.thermal, water: model.water, params, step_gpa: model.step_gpa };
+  const base = { thermal: model.thermal, water: model.water, params, step_gpa: model.step_gpa };
+  return model.deep_onset === undefined || model.deep_onset === 'drop' ? base : { ...base, deep_onset: model.deep_onset };
 }

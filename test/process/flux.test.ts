@@ -22,10 +22,10 @@ const problemsOf = (fn: () => unknown): readonly string[] => {
   return [];
 };
 
-const columnJson = (args: readonly string[]): Record<string, number | string | null> => {
+const columnJson = (args: readonly string[]): Record<string, unknown> => {
   const r = runCliSync(['column', '--process', 'flux', ...args, '--json']);
   expect(r.status, r.stderr).toBe(0);
-  return JSON.parse(r.stdout) as Record<string, number | string | null>;
+  return JSON.parse(r.stdout) as Record<string, unknown>;
 };
 
 describe('flux sweeps: validation', () => {
@@ -94,7 +94,9 @@ describe('flux sweeps: validation', () => {
 describe('meltsweep column --process flux', () => {
   it('prints every result field; --json keys are the field names', () => {
     const out = columnJson(['--tp', '1300', '--water', '500', '--lid', '70', '--slab-depth', '110']);
-    expect(Object.keys(out)).toEqual(['status', 'reason', ...FLUX_RESULTS.map((f) => f.name)]);
+    expect(Object.keys(out)).toEqual(['status', 'reason', ...FLUX_RESULTS.map((f) => f.name), 'inputs', 'model']);
+    expect(out.inputs).toEqual({ tp_c: 1300, water_ppm: 500, lid_km: 70, slab_depth_km: 110 });
+    expect(out.model).toMatchObject({ process: 'flux', geotherm: 'lid-adiabat', heat: 'balanced', params: {} });
     expect(out.status).toBe('ok');
     expect(out.onset_depth_km as number).toBeCloseTo(110, 9); // melts down to the slab
     const text = runCliSync(['column', '--process', 'flux', '--tp', '1300', '--water', '500', '--lid', '70', '--slab-depth', '110', '--heat', 'fixed']);
