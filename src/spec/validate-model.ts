@@ -51,6 +51,11 @@ export const validateModel = describeModelValidator(validateDecompressionModel, 
     default: STEP_GPA_DEFAULT,
     description: `pressure step of the isentropic column, GPa (${STEP_GPA_MIN}-${STEP_GPA_MAX})`,
   },
+  deep_onset: {
+    enum: DEEP_ONSET_MODES,
+    default: 'drop',
+    description: 'onsets deeper than 8 GPa: drop (onset_beyond_range rows) or cap (computed from 8 GPa up, marked onset_capped)',
+  },
 });
 
 function validateDecompressionModel(raw: unknown, problems: ProblemList): DecompressionModelSpec | undefined {
