@@ -14,6 +14,7 @@ import { checkRangeValue, formatRange, INPUT_RANGES, STEP_GPA_RANGE, type InputR
 import type { ModelOptions, Scenario, ThermalModel, WaterMode } from '../../physics/types.js';
 import { MAX_DIAGRAM_SCENARIOS } from '../../report/theme.js';
 import { addFigureSizeOptions, checkOutputFile, figureOutput } from '../figure-output.js';
+import { registerPlotMap } from './plot-map.js';
 
 const WATER_MODES: readonly WaterMode[] = ['batch', 'fractional'];
 const THERMAL_CHOICES: readonly (ThermalModel | 'auto')[] = ['auto', 'isentropic', 'conductive'];
@@ -131,4 +132,5 @@ export function registerPlot(program: Command): void {
     process.stdout.write(`column diagram: ${o.output} (${scenarios.length} scenario${scenarios.length === 1 ? '' : 's'})\n`);
     for (const note of r.data.notes) process.stderr.write(`note: ${note}\n`);
   });
+  registerPlotMap(plot);
 }
