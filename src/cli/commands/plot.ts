@@ -17,6 +17,7 @@ import type { DecompressionModelSpec } from '../../spec/validate-model.js';
 import { MODEL_FLAG_HELP, modelFromFlags } from '../model-flags.js';
 import { MAX_DIAGRAM_SCENARIOS } from '../../report/theme.js';
 import { addFigureSizeOptions, checkOutputFile, figureOutput } from '../figure-output.js';
+import { registerPlotMap } from './plot-map.js';
 
 
 interface PlotColumnOptions {
@@ -127,4 +128,5 @@ export function registerPlot(program: Command): void {
     process.stdout.write(`column diagram: ${o.output} (${scenarios.length} scenario${scenarios.length === 1 ? '' : 's'})\n`);
     for (const note of r.data.notes) process.stderr.write(`note: ${note}\n`);
   });
+  registerPlotMap(plot);
 }
