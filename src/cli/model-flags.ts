@@ -5,6 +5,7 @@
  */
 import { InputError } from '../errors.js';
 import { checkRangeValue, formatRange, STEP_GPA_RANGE, type InputRange } from '../physics/ranges.js';
+import { allProcesses } from '../process/registry.js';
 import type { AnyProcess } from '../process/types.js';
 import { ProblemList } from '../spec/problems.js';
 import type { ModelSpec } from '../spec/types.js';
@@ -16,6 +17,24 @@ export const MODEL_FLAGS = [
   { flag: 'step', key: 'step_gpa', numeric: true },
   { flag: 'deep-onset', key: 'deep_onset' },
 ] as const;
+
+/** A model option as a flag: decompression's built-in ones, then those processes declare (ProcessModelOptions.cliFlags). */
+interface ModelFlag {
+  readonly flag: string;
+  readonly key: string;
+  readonly numeric?: boolean;
+  /** the flag names a file: the section gets { file: value } */
+  readonly file?: boolean;
+}
+
+/** Every model option, once (the first declaration of a flag wins). */
+export function modelFlags(): ModelFlag[] {
+  const out: ModelFlag[] = [...MODEL_FLAGS];
+  for (const p of allProcesses()) {
+    for (const f of p.model.cliFlags ?? []) if (!out.some((x) => x.flag === f.flag)) out.push({ flag: f.flag, key: f.key, file: f.kind === 'file' });
+  }
+  return out;
+}
 
 /** Help texts of the model flags. */
 export const MODEL_FLAG_HELP = {
@@ -41,9 +60,10 @@ export function parseRanged(option: string, raw: string, range: InputRange): num
 
 /** "model.thermal: ..." -> "--thermal: ..." for model keys that have a flag. */
 export function flagOfModelProblem(message: string): string {
-  for (const m of MODEL_FLAGS) {
-    const prefix = `model.${m.key}`;
-    if (message.startsWith(prefix)) return `--${m.flag}${message.slice(prefix.length)}`;
+  for (const m of modelFlags()) {
+    for (const prefix of m.file === true ? [`model.${m.key}.file`, `model.${m.key}`] : [`model.${m.key}`]) {
+      if (message.startsWith(`${prefix}:`)) return `--${m.flag}${message.slice(prefix.length)}`;
+    }
   }
   return message;
 }
@@ -56,14 +76,14 @@ export function flagOfModelProblem(message: string): string {
 export function modelFromFlags(process: AnyProcess, o: Readonly<Record<string, unknown>>): { model: ModelSpec | undefined; problems: string[] } {
   const problems: string[] = [];
   const section: Record<string, unknown> = {};
-  for (const m of MODEL_FLAGS) {
+  for (const m of modelFlags()) {
     const raw = o[optionKey(m.flag)];
     if (typeof raw !== 'string') continue;
     if (!process.model.keys.includes(m.key)) {
       problems.push(`--${m.flag}: process ${process.name} has no option ${m.key}; its options: ${process.model.keys.join(', ')}`);
       continue;
     }
-    section[m.key] = 'numeric' in m ? Number(raw) : raw;
+    section[m.key] = m.numeric === true ? Number(raw) : m.file === true ? { file: raw } : raw;
   }
   let step: number | undefined;
   if ('step_gpa' in section) {

@@ -31,10 +31,14 @@ export function columnInputs(o: ColumnOptions): { process: AnyProcess; inputs: R
   // the model section from the model flags, validated by the process (its messages name the flags)
   const { model, problems } = modelFromFlags(process, o);
   const inputs: Record<string, number> = {};
-  const own = process.inputsFor(model ?? { ...process.model.defaults, params: {} });
+  const modelOrDefaults = model ?? { ...process.model.defaults, params: {} };
+  const own = process.inputsFor(modelOrDefaults);
+  const note = process.model.inputsNote?.(modelOrDefaults) ?? null;
   for (const other of allInputFlags()) {
     if (o[optionKey(other.cliFlag)] !== undefined && !own.some((i) => i.cliFlag === other.cliFlag)) {
-      problems.push(`--${other.cliFlag}: ${other.name} is not an input of process ${process.name}; its inputs: ${own.map((i) => `${i.name} (--${i.cliFlag})`).join(', ')}`);
+      problems.push(
+        `--${other.cliFlag}: ${other.name} is not an input of process ${process.name}; its inputs: ${own.map((i) => `${i.name} (--${i.cliFlag})`).join(', ')}${note === null ? '' : ` (${note})`}`,
+      );
     }
   }
   for (const input of own) {
@@ -146,7 +150,9 @@ export function registerColumn(program: Command): void {
     .option('--mode <mode>', `${MODEL_FLAG_HELP.mode} [process decompression]`)
     .option('--thermal <model>', `${MODEL_FLAG_HELP.thermal} [process decompression]`)
     .option('--step <GPa>', `${MODEL_FLAG_HELP.step} [process decompression]`)
-    .option('--deep-onset <mode>', `${MODEL_FLAG_HELP.deepOnset} [process decompression]`)
+    .option('--deep-onset <mode>', `${MODEL_FLAG_HELP.deepOnset} [process decompression]`);
+  for (const p of allProcesses()) for (const f of p.model.cliFlags ?? []) if (!cmd.options.some((x) => x.long === `--${f.flag}`)) cmd.option(`--${f.flag} <${f.placeholder}>`, f.description);
+  cmd
     .option('--json', 'print one JSON object: status, reason, every numeric result field (null where not applicable), then the inputs and model options it ran with')
     .option('--profile <file.csv>', 'write the profile along the melting column to a CSV file')
     .action((o: ColumnOptions) => {
