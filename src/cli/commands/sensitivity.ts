@@ -31,7 +31,7 @@ export async function summarizeResults(
   file: string,
   o: { outputs?: string[]; resamples?: number; seed?: number; output?: string; capped?: CappedChoice; force?: boolean } = {},
 ): Promise<string> {
-  const meta = readResultsMeta(await readTableSchema(file));
+  const meta = readResultsMeta(await readTableSchema(file), file);
   const out = o.output ?? sensitivityPathFor(file);
   if (o.force !== true) {
     checkOutputFile('-o', out, true); // folder exists, not a folder itself
@@ -48,7 +48,7 @@ export async function summarizeResults(
 
 /** The summary step after `meltsweep run`: skipped with a note for shards and very large tables. */
 export async function summaryAfterRun(file: string): Promise<string> {
-  const meta = readResultsMeta(await readTableSchema(file));
+  const meta = readResultsMeta(await readTableSchema(file), file);
   if (meta.rowStart !== 0 || meta.rowEnd !== meta.pointCount) {
     return 'sensitivity: skipped for a shard (merge the shards, then run meltsweep sensitivity on the merged file)';
   }
