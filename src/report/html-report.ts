@@ -148,7 +148,7 @@ export async function buildHtmlReport(file: string, options: ReportOptions = {})
       }));
       const data = columnDiagramData(items, sweepModel(spec.model as DecompressionModelSpec, meta.params));
       const plot = columnDiagramLayout(data, { title: `Representative columns: smallest, median and largest ${labelOf(repOutput)}`, subtitle: `among the ok rows of ${spec.name}` });
-      const wet = data.wetWaters.length > 0 ? ' Near the surface each wet solidus bends back to the dry one: the water the melt can hold falls to zero as pressure goes to zero, so the last kilometres melt as if dry. This is the model, not a glitch.' : '';
+      const wet = data.wetWaters.length > 0 ? ' Near the surface each wet solidus bends back to the dry one: the water the melt can hold falls to zero as pressure goes to zero, so the last kilometres melt as if dry.' : '';
       columns.push(await figure('column', repOutput, plot, `Temperature and melt fraction against depth for the ok rows with the smallest, median and largest ${repOutput}. The key below the diagram explains the marks.${wet}`));
     } else {
       notes.push(`no ok row has a value of ${repOutput}: no representative columns`);
