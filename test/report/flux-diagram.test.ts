@@ -1,11 +1,10 @@
 import { afterAll, describe, expect, it } from 'vitest';
 import fs from 'node:fs';
-import path from 'node:path';
 import { resolveParams } from '../../src/physics/params.js';
 import type { FluxRuntimeModel } from '../../src/process/flux.js';
 import { renderFigure } from '../../src/report/figure.js';
 import { FLUX_MARKS, fluxDiagramData, fluxDiagramLayout } from '../../src/report/flux-diagram.js';
-import { runCliSync, tmpDir } from '../helpers.js';
+import { tmpDir } from '../helpers.js';
 import { pointsOutsideFrame, xmlProblem } from './helpers.js';
 
 const dir = tmpDir('flux-diagram');
@@ -38,22 +37,4 @@ describe('flux diagram', () => {
     }
   });
 
-  it('plot column --process flux writes the diagram; options of another process are errors naming it', () => {
-    const out = path.join(dir, 'wedge.svg');
-    const r = runCliSync(['plot', 'column', '--process', 'flux', '--tp', '1300', '--water', '200,2000', '--lid', '70', '--slab-depth', '110', '-o', out]);
-    expect(r.stderr).toBe('');
-    expect(r.status).toBe(0);
-    expect(r.stdout).toContain(`flux diagram: ${out} (2 scenarios)`);
-    const svg = fs.readFileSync(out, 'utf8');
-    expect(xmlProblem(svg)).toBeNull();
-    expect(svg).not.toContain('<text');
-    const bad = runCliSync(['plot', 'column', '--process', 'flux', '--tp', '1300', '--water', '200', '--upwelling', '3', '--heat', 'warm', '-o', path.join(dir, 'b.svg')]);
-    expect(bad.status).toBe(2);
-    expect(bad.stderr).toContain('--upwelling: upwelling_mm_yr is an input of process decompression, not of process flux');
-    expect(bad.stderr).toContain('--heat: "warm" is not a heat mode; allowed: balanced, fixed');
-    expect(bad.stderr).toContain('--lid: missing; process flux needs lid_km');
-    const other = runCliSync(['plot', 'column', '--tp', '1300', '--slab-depth', '100', '-o', path.join(dir, 'c.svg')]);
-    expect(other.status).toBe(2);
-    expect(other.stderr).toContain('--slab-depth: slab_depth_km is an input of process flux, not of process decompression; give --process flux');
-  });
 });
