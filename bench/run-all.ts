@@ -11,6 +11,7 @@ import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { benchColumn } from './column.js';
 import { benchConductive } from './conductive.js';
+import { benchFluxColumn } from './flux-column.js';
 import { benchSweep } from './sweep.js';
 import { benchWriter } from './writer.js';
 import { benchBigSweep } from './big-sweep.js';
@@ -57,6 +58,8 @@ async function main(): Promise<void> {
 
   log('isentropic column');
   const column = await benchColumn({ repetitions: quick ? 3 : 5 });
+  log('flux column');
+  const flux = await benchFluxColumn({ repetitions: quick ? 3 : 5 });
   log('conductive column');
   const conductive = await benchConductive({ repetitions: quick ? 3 : 5 });
   log('sweep scaling');
@@ -76,6 +79,8 @@ async function main(): Promise<void> {
     row(column, 20_000),
     row(column.wall, null),
     row(conductive, 1_000),
+    row(flux, 20_000),
+    row(flux.wall, null),
     ...sweep.byWorkers.map((b) => row(b, null)),
     ...sweep.efficiency.map((e) => ({
       figure: `speed-up with ${e.workers} workers over one [x]`,
@@ -119,7 +124,7 @@ async function main(): Promise<void> {
     },
   ];
   process.stdout.write(`${printTable(rows)}\n`);
-  const results = { header, quick, cores, node: process.version, column, conductive, sweep, writer, baseline, big, fitCore, fitFile, efficiencyTwoWorkers: two ?? null };
+  const results = { header, quick, cores, node: process.version, column, conductive, flux, sweep, writer, baseline, big, fitCore, fitFile, efficiencyTwoWorkers: two ?? null };
   const out = path.join(path.dirname(fileURLToPath(import.meta.url)), '..', '..', 'bench', 'results.json');
   fs.writeFileSync(out, `${JSON.stringify(results, null, 2)}\n`);
   process.stdout.write(`results written to ${path.relative(process.cwd(), out) || out}\n`);
