@@ -4,7 +4,7 @@
  * prefix and "did you mean" for unknown parameter names.
  */
 import { PARAM_NAMES, ParamError, resolveParams, type ParamName, type ParamOverrides } from '../physics/params.js';
-import { STEP_GPA_DEFAULT, STEP_GPA_MAX, STEP_GPA_MIN } from './limits.js';
+import { STEP_GPA_MAX, STEP_GPA_MIN, TOLERANCE_DEFAULT, TOLERANCE_MAX, TOLERANCE_MIN } from './limits.js';
 import { checkKeys, describeFound, isMapping, readChoice, readNumber, unknownKeyText, type ProblemList } from './problems.js';
 import type { ModelSpec } from './types.js';
 
@@ -14,18 +14,29 @@ export interface DecompressionModelSpec extends ModelSpec {
   readonly thermal: 'isentropic' | 'conductive' | 'auto';
   /** default 'batch' */
   readonly water: 'batch' | 'fractional';
-  /** isentropic pressure step, GPa (default 0.05, allowed 0.001-0.5) */
-  readonly step_gpa: number;
+  /**
+   * isentropic column: a fixed pressure step, GPa (allowed 0.001-0.5). Present only when the sweep
+   * file gives it; then `tolerance` is absent and the tables are those of the fixed-step integration.
+   */
+  readonly step_gpa?: number;
+  /**
+   * isentropic column: relative tolerance of the error-controlled integration (allowed 1e-6-1e-2,
+   * default 1e-4). Present exactly when step_gpa is not.
+   */
+  readonly tolerance?: number;
 }
 
 /** Keys of the `model` section. */
-export const MODEL_KEYS = ['thermal', 'water', 'params', 'step_gpa'] as const;
+export const MODEL_KEYS = ['thermal', 'water', 'params', 'step_gpa', 'tolerance'] as const;
 /** Allowed `model.thermal` values. */
 export const THERMAL_MODES: readonly DecompressionModelSpec['thermal'][] = ['isentropic', 'conductive', 'auto'];
 /** Allowed `model.water` values. */
 export const WATER_MODES: readonly DecompressionModelSpec['water'][] = ['batch', 'fractional'];
 
-/** Validate `model`; absent means thermal auto, water batch, no overrides, step 0.05 GPa. */
+/**
+ * Validate `model`; absent means thermal auto, water batch, no overrides, tolerance 1e-4. A sweep
+ * gives step_gpa (fixed step) or tolerance (error control), not both.
+ */
 export function validateModel(raw: unknown, problems: ProblemList): DecompressionModelSpec | undefined {
   if (raw !== undefined && raw !== null && !isMapping(raw)) {
     problems.add('model', `${describeFound(raw)} is not a mapping; write { thermal: ..., water: ..., params: { ... } }`);
@@ -36,12 +47,28 @@ export function validateModel(raw: unknown, problems: ProblemList): Decompressio
   checkKeys(body, MODEL_KEYS, 'model', problems);
   const thermal = body.thermal === undefined ? 'auto' : readChoice(body.thermal, THERMAL_MODES, 'model.thermal', problems, 'a thermal model');
   const water = body.water === undefined ? 'batch' : readChoice(body.water, WATER_MODES, 'model.water', problems, 'a water mode');
-  const step = body.step_gpa === undefined ? STEP_GPA_DEFAULT : readStep(body.step_gpa, problems);
+  const step = body.step_gpa === undefined ? undefined : readStep(body.step_gpa, problems);
+  const tolerance = body.tolerance === undefined ? undefined : readTolerance(body.tolerance, problems);
+  if (body.step_gpa !== undefined && body.tolerance !== undefined) {
+    problems.add(
+      'model.tolerance',
+      `${String(body.tolerance)} given together with step_gpa ${String(body.step_gpa)}; give one: step_gpa for a fixed pressure step, or tolerance for error-controlled steps`,
+    );
+  }
   const params = body.params === undefined || body.params === null ? {} : validateParams(body.params, problems);
-  if (problems.count !== before || thermal === undefined || water === undefined || step === undefined || params === undefined) {
+  if (problems.count !== before || thermal === undefined || water === undefined || params === undefined) return undefined;
+  if (step !== undefined) return { thermal, water, params, step_gpa: step };
+  return { thermal, water, params, tolerance: tolerance ?? TOLERANCE_DEFAULT };
+}
+
+function readTolerance(raw: unknown, problems: ProblemList): number | undefined {
+  const v = readNumber(raw, 'model.tolerance', problems);
+  if (v === undefined) return undefined;
+  if (!(v >= TOLERANCE_MIN && v <= TOLERANCE_MAX)) {
+    problems.add('model.tolerance', `${v} is ${v < TOLERANCE_MIN ? 'below' : 'above'} the allowed range ${TOLERANCE_MIN}-${TOLERANCE_MAX} (relative)`);
     return undefined;
   }
-  return { thermal, water, params, step_gpa: step };
+  return v;
 }
 
 function readStep(raw: unknown, problems: ProblemList): number | undefined {
@@ -85,8 +112,10 @@ function validateParams(raw: unknown, problems: ProblemList): ParamOverrides | u
 
 /**
  * The canonical form of a valid decompression model section: thermal, water, params (in the
- * registry's order), step_gpa; no `process` key (the default process is not written, so specs
- * stored before processes existed keep their JSON and hash).
+ * registry's order), then step_gpa or tolerance (whichever applies); no `process` key (the default
+ * process is not written). A sweep with step_gpa keeps the JSON and hash it had before tolerances
+ * existed (and its tables); one without step_gpa now runs with error control and records the
+ * tolerance, so its hash differs from a run made before, and --resume of such a run refuses.
  */
 export function normalizeDecompressionModel(model: DecompressionModelSpec): DecompressionModelSpec {
   const params: Partial<Record<ParamName, number>> = {};
@@ -94,5 +123,6 @@ export function normalizeDecompressionModel(model: DecompressionModelSpec): Deco
     const v = model.params[name];
     if (v !== undefined) params[name] = v;
   }
-  return { thermal: model.thermal, water: model.water, params, step_gpa: model.step_gpa };
+  if (model.step_gpa !== undefined) return { thermal: model.thermal, water: model.water, params, step_gpa: model.step_gpa };
+  return { thermal: model.thermal, water: model.water, params, tolerance: model.tolerance ?? TOLERANCE_DEFAULT };
 }

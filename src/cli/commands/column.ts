@@ -11,6 +11,7 @@ import { REASON_FIELD, STATUS_FIELD, type FieldInfo } from '../../physics/fields
 import { checkRangeValue, formatRange, STEP_GPA_RANGE, type InputRange } from '../../physics/ranges.js';
 import { allProcesses, DEFAULT_PROCESS, processNamed } from '../../process/registry.js';
 import type { AnyProcess, InputDef, ProcessResult } from '../../process/types.js';
+import { TOLERANCE_DEFAULT, TOLERANCE_MAX, TOLERANCE_MIN } from '../../spec/limits.js';
 import { ProblemList } from '../../spec/problems.js';
 import type { ModelSpec } from '../../spec/types.js';
 
@@ -19,6 +20,7 @@ const MODEL_FLAGS = [
   { flag: 'mode', key: 'water' },
   { flag: 'thermal', key: 'thermal' },
   { flag: 'step', key: 'step_gpa', numeric: true },
+  { flag: 'tolerance', key: 'tolerance', numeric: true },
 ] as const;
 
 /** What commander hands the action: input flags and model flags as text, plus the fixed options. */
@@ -64,6 +66,10 @@ export function columnInputs(o: ColumnOptions): { process: AnyProcess; inputs: R
   let step: number | undefined;
   if ('step_gpa' in section) {
     delete section.step_gpa;
+    if ('tolerance' in section) {
+      problems.push(`--tolerance: ${String(o.tolerance)} given together with --step ${String(o.step)}; give one: --step for a fixed pressure step, or --tolerance for error-controlled steps`);
+      delete section.tolerance;
+    }
     try {
       step = parseRanged('--step', o.step as string, STEP_GPA_RANGE);
     } catch (err) {
@@ -73,7 +79,8 @@ export function columnInputs(o: ColumnOptions): { process: AnyProcess; inputs: R
   }
   const modelProblems = new ProblemList();
   const validated = process.model.validate(section, modelProblems);
-  const model = validated !== undefined && step !== undefined ? { ...validated, step_gpa: step } : validated;
+  // a fixed step replaces the (default) tolerance
+  const model = validated !== undefined && step !== undefined ? withFixedStep(validated, step) : validated;
   problems.push(...modelProblems.list().map(flagOfModelProblem));
   const inputs: Record<string, number> = {};
   const own = process.inputsFor(model ?? { ...process.model.defaults, params: {} });
@@ -105,6 +112,14 @@ export function columnInputs(o: ColumnOptions): { process: AnyProcess; inputs: R
   }
   if (problems.length > 0 || model === undefined) throw new InputError(problems);
   return { process, inputs, model };
+}
+
+/** The model section with step_gpa set and tolerance removed. */
+function withFixedStep(model: ModelSpec, stepGpa: number): ModelSpec {
+  const out: Record<string, unknown> = {};
+  for (const [k, v] of Object.entries(model)) if (k !== 'tolerance') out[k] = v;
+  out.step_gpa = stepGpa;
+  return out as ModelSpec;
 }
 
 /** "model.thermal: ..." -> "--thermal: ..." for model keys that have a flag here. */
@@ -171,7 +186,8 @@ export function registerColumn(program: Command): void {
   cmd
     .option('--mode <mode>', 'water mode: batch or fractional (default batch) [process decompression]')
     .option('--thermal <model>', 'thermal model: isentropic, conductive, auto (default auto: conductive with --upwelling, else isentropic) [process decompression]')
-    .option('--step <GPa>', `isentropic pressure step (${formatRange(STEP_GPA_RANGE)}, default 0.05) [process decompression]`)
+    .option('--step <GPa>', `isentropic column: a fixed pressure step (${formatRange(STEP_GPA_RANGE)}) instead of error control [process decompression]`)
+    .option('--tolerance <rel>', `isentropic column: relative tolerance of the error-controlled steps (${TOLERANCE_MIN}-${TOLERANCE_MAX}, default ${TOLERANCE_DEFAULT}) [process decompression]`)
     .option('--json', 'print one JSON object: status, reason and every numeric result field (null where not applicable)')
     .option('--profile <file.csv>', 'write the profile along the melting column to a CSV file')
     .action((o: ColumnOptions) => {

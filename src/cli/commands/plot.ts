@@ -10,7 +10,8 @@ import { InputError } from '../../errors.js';
 import { writeFileAtomic } from '../../io/ipc-file.js';
 import { defaultModel } from '../../physics/column.js';
 import type { InputName } from '../../physics/fields.js';
-import { checkRangeValue, formatRange, INPUT_RANGES, STEP_GPA_RANGE, type InputRange } from '../../physics/ranges.js';
+import { checkRangeValue, formatRange, INPUT_RANGES, STEP_GPA_RANGE, TOLERANCE_RANGE, type InputRange } from '../../physics/ranges.js';
+import { TOLERANCE_DEFAULT as TOLERANCE_RANGE_DEFAULT } from '../../spec/limits.js';
 import type { ModelOptions, Scenario, ThermalModel, WaterMode } from '../../physics/types.js';
 import { MAX_DIAGRAM_SCENARIOS } from '../../report/theme.js';
 import { addFigureSizeOptions, checkOutputFile, figureOutput } from '../figure-output.js';
@@ -25,7 +26,8 @@ interface PlotColumnOptions {
   upwelling?: string;
   thermal: string;
   mode: string;
-  step: string;
+  step?: string;
+  tolerance?: string;
   title?: string;
   output: string;
   width?: string;
@@ -78,12 +80,20 @@ export function plotColumnInputs(o: PlotColumnOptions): { scenarios: Scenario[];
   const ups = list('--upwelling', o.upwelling, 'upwelling_mm_yr');
   const thermal = attempt(() => parseChoice('--thermal', o.thermal, THERMAL_CHOICES), 'auto' as ThermalModel | 'auto');
   const mode = attempt(() => parseChoice('--mode', o.mode, WATER_MODES), 'batch' as WaterMode);
-  const step = attempt(() => {
-    const v = Number(o.step);
-    const problem = o.step.trim() === '' ? 'is not a number' : checkRangeValue(STEP_GPA_RANGE, v);
-    if (problem !== null) throw new InputError(`--step: ${o.step} ${problem}${problem === 'is not a number' ? `; allowed ${formatRange(STEP_GPA_RANGE)}` : ''}`);
-    return v;
-  }, 0.05);
+  const ranged = (option: string, raw: string | undefined, range: InputRange): number | undefined =>
+    raw === undefined
+      ? undefined
+      : attempt(() => {
+          const v = Number(raw);
+          const problem = raw.trim() === '' ? 'is not a number' : checkRangeValue(range, v);
+          if (problem !== null) throw new InputError(`${option}: ${raw} ${problem}${problem === 'is not a number' ? `; allowed ${formatRange(range)}` : ''}`);
+          return v;
+        }, undefined);
+  const step = ranged('--step', o.step, STEP_GPA_RANGE);
+  const tolerance = ranged('--tolerance', o.tolerance, TOLERANCE_RANGE);
+  if (o.step !== undefined && o.tolerance !== undefined) {
+    problems.push(`--tolerance: ${o.tolerance} given together with --step ${o.step}; give one: --step for a fixed pressure step, or --tolerance for error-controlled steps`);
+  }
   if (thermal === 'conductive' && o.upwelling === undefined) problems.push('--thermal conductive needs an upwelling rate: give --upwelling <mm/yr>');
   const conductive = thermal === 'conductive' || (thermal === 'auto' && o.upwelling !== undefined);
   if (mode === 'fractional' && conductive) {
@@ -99,7 +109,8 @@ export function plotColumnInputs(o: PlotColumnOptions): { scenarios: Scenario[];
   if (problems.length > 0) throw new InputError(problems);
   const scenarios: Scenario[] = [];
   for (const tp_c of tps) for (const water_ppm of waters) for (const lid_km of lids) for (const upwelling_mm_yr of ups) scenarios.push({ tp_c, water_ppm, lid_km, upwelling_mm_yr });
-  return { scenarios, model: defaultModel({ thermal, water: mode, stepGpa: step }) };
+  const accuracy = step !== undefined ? { stepGpa: step } : tolerance !== undefined ? { tolerance } : {};
+  return { scenarios, model: defaultModel({ thermal, water: mode, ...accuracy }) };
 }
 
 /** Register `meltsweep plot` and its `column` subcommand. */
@@ -117,7 +128,8 @@ export function registerPlot(program: Command): void {
     .option('--upwelling <list>', `solid upwelling rate(s) (${formatRange(INPUT_RANGES.upwelling_mm_yr)}); selects the conductive model under --thermal auto`)
     .option('--thermal <model>', `thermal model: ${THERMAL_CHOICES.join(', ')} (auto: conductive with --upwelling, else isentropic)`, 'auto')
     .option('--mode <mode>', `water mode: ${WATER_MODES.join(' or ')}`, 'batch')
-    .option('--step <GPa>', `isentropic pressure step (${formatRange(STEP_GPA_RANGE)})`, '0.05')
+    .option('--step <GPa>', `isentropic column: a fixed pressure step (${formatRange(STEP_GPA_RANGE)}) instead of error control`)
+    .option('--tolerance <rel>', `isentropic column: relative tolerance of the error-controlled steps (${formatRange(TOLERANCE_RANGE)}, default ${TOLERANCE_RANGE_DEFAULT})`)
     .option('--title <text>', 'title above the diagram (default "Melting column")')
     .requiredOption('-o, --output <file>', 'the file to write: .svg, .png or .pdf (text as outlines of the bundled font)');
   addFigureSizeOptions(column).action(async (o: PlotColumnOptions) => {
