@@ -457,7 +457,7 @@ class AdaptiveIntegrator {
       const dNear = this.p0 - near;
       if (dNear > 4 * EVENT_TOL_GPA) {
         const e = this.errorRatio(near);
-        if (e > 1) return dNear * Math.max(0.2, 0.9 * Math.pow(e, -1 / (this.gq + 1)));
+        if (e > 1) return dNear * Math.max(0.2, 0.9 * stepFactor(e, this.gq));
       }
       if (near < this.p0) this.commit(near, true);
       this.attempt(far);
@@ -505,7 +505,7 @@ class AdaptiveIntegrator {
       const kind = this.detectEvent();
       const dP = this.p0 - p1;
       if (e > 1 && dP > 1.5 * H_MIN_GPA && kind === EV_NONE) {
-        h = Math.max(dP * Math.max(0.2, 0.9 * Math.pow(e, -1 / (this.gq + 1))), H_MIN_GPA);
+        h = Math.max(dP * Math.max(0.2, 0.9 * stepFactor(e, this.gq)), H_MIN_GPA);
         continue;
       }
       if (kind !== EV_NONE && dP > EVENT_TOL_GPA) {
@@ -516,10 +516,17 @@ class AdaptiveIntegrator {
       }
       this.commit(p1, false);
       this.skipKind = EV_NONE;
-      const grow = e > 0 ? Math.min(4, Math.max(0.2, 0.9 * Math.pow(e, -1 / (this.gq + 1)))) : 4;
+      const grow = e > 0 ? Math.min(4, Math.max(0.2, 0.9 * stepFactor(e, this.gq))) : 4;
       h = Math.min(dP * grow, H_MAX_GPA);
     }
   }
+}
+
+/** e^(-1/(q+1)) for the predictor order q (the step-size rule), without Math.pow for the usual orders. */
+function stepFactor(e: number, q: number): number {
+  if (q === 3) return 1 / Math.sqrt(Math.sqrt(e));
+  if (q === 1) return 1 / Math.sqrt(e);
+  return Math.pow(e, -1 / (q + 1));
 }
 
 /** Extrapolate the Hermite cubic in x (value y0, slope s0 at x = 0; y0 - yPrev and slope sPrev at x = -L) to x = dx. */
