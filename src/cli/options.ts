@@ -1,5 +1,6 @@
 /** Option parsers shared by commands: each throws InputError naming the option, value and what is allowed. */
 import { InputError } from '../errors.js';
+import { outputExtensionWarning, type OutputFormat } from '../io/output-format.js';
 
 export function parseWorkers(value: string): number {
   const n = Number(value);
@@ -12,4 +13,10 @@ export function parseNumberOption(option: string, value: string, min: number, ma
   if (value.trim() === '' || !Number.isFinite(n)) throw new InputError(`${option}: ${JSON.stringify(value)} is not a number; allowed ${min} to ${max} ${unit}`);
   if (n < min || n > max) throw new InputError(`${option}: ${value} ${unit} is outside the allowed range ${min} to ${max} ${unit}`);
   return n;
+}
+
+/** Print on stderr when an output's extension disagrees with the format it is written in. */
+export function warnOutputExtension(outPath: string, format?: OutputFormat): void {
+  const w = outputExtensionWarning(outPath, format);
+  if (w !== null) process.stderr.write(`warning: ${w}\n`);
 }

@@ -6,6 +6,7 @@ import { Command, CommanderError } from 'commander';
 import { InputError, RunError, EXIT_BAD_INPUT, EXIT_RUN_FAILED } from '../errors.js';
 import { TOOL_VERSION } from '../version.js';
 import { registerCommands } from './commands/index.js';
+import { checkOptionsInOrder } from './option-checks.js';
 
 export function buildProgram(): Command {
   const program = new Command('meltsweep')
@@ -15,7 +16,7 @@ export function buildProgram(): Command {
     .showSuggestionAfterError(true)
     .exitOverride();
   registerCommands(program);
-  program.commands.forEach((c) => c.exitOverride().showHelpAfterError());
+  program.commands.forEach((c) => checkOptionsInOrder(c.exitOverride()));
   return program;
 }
 

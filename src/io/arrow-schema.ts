@@ -5,7 +5,7 @@
  */
 import * as arrow from 'apache-arrow';
 import { REASON_FIELD, STATUS_FIELD, type FieldInfo } from '../physics/fields.js';
-import { DEFAULT_PROCESS, processNamed, processNameOf } from '../process/registry.js';
+import { DEFAULT_PROCESS, processNamed, processNameOf, resultsOf } from '../process/registry.js';
 import type { SweepSpec } from '../spec/types.js';
 import { COLUMN_STATUSES } from '../physics/types.js';
 import { PARAM_INFO, PARAM_NAMES, type MeltParams } from '../physics/params.js';
@@ -72,7 +72,7 @@ export interface TableFields {
 export function tableFieldsOf(spec: SweepSpec): TableFields {
   const name = processNameOf(spec);
   const process = processNamed(name, 'model.process');
-  return { process: name, inputs: process.inputsFor(spec.model), results: process.results };
+  return { process: name, inputs: process.inputsFor(spec.model), results: resultsOf(process, spec.model) };
 }
 
 /** Column order of a results table: scenario_id, inputs, [block], status, reason, results. */
@@ -141,7 +141,7 @@ export function readResultsMeta(schema: arrow.Schema): ResultsTableMeta & { swee
   return {
     process: processName,
     inputs: process.inputsFor(sweep.model),
-    results: process.results,
+    results: resultsOf(process, sweep.model),
     sweepJson,
     sweep,
     sweepHash: get(META.sweepHash),

@@ -3,13 +3,13 @@
  * documentation cannot drift from what is written (a test checks the README holds them).
  */
 import { PROFILE_TABLE_FIELDS, type FieldInfo } from '../physics/fields.js';
-import { allProcesses, DEFAULT_PROCESS, processNamed } from '../process/registry.js';
+import { allProcesses, DEFAULT_PROCESS, everyResultOf, processNamed } from '../process/registry.js';
 import { resultFieldInfos, SCENARIO_ID_FIELD } from './arrow-schema.js';
 
 /** The results-table columns of a process (default: decompression), with the saltelli block column. */
 export function outputColumnsMarkdown(processName = DEFAULT_PROCESS): string {
   const process = processNamed(processName);
-  const fields = { process: process.name, inputs: process.inputsFor({ ...process.model.defaults, params: {} }), results: process.results };
+  const fields = { process: process.name, inputs: process.inputsFor({ ...process.model.defaults, params: {} }), results: everyResultOf(process) };
   const rows = resultFieldInfos(fields, true).map((f) => {
     const type = f.kind === 'status' ? 'dictionary<utf8>' : f.kind;
     return `| \`${f.name}\` | ${f.unit === '' ? '-' : f.unit} | ${type}${f.nullable ? ', nullable' : ''} | ${f.description} |`;

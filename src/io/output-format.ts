@@ -40,6 +40,31 @@ export function resolveOutputFormat(outPath: string, format?: OutputFormat | str
   return formatFromExtension(outPath) ?? 'arrow';
 }
 
+/** How each format is called in messages. */
+const FORMAT_TITLES: Readonly<Record<OutputFormat, string>> = { arrow: 'an Arrow IPC file', parquet: 'Parquet', csv: 'CSV' };
+
+/**
+ * A warning when an output's extension disagrees with the format it will be written in, or null.
+ * Warned: a table extension naming another format (`-o r.parquet --format csv`), and an extension
+ * that is no table format at all when the format comes from the default (`-o r.xlsx`: Arrow IPC).
+ * Not warned: a name without an extension, or any extension with an explicit --format that it
+ * does not contradict (`-o r.dat --format csv`).
+ */
+export function outputExtensionWarning(outPath: string, format?: OutputFormat | string): string | null {
+  const resolved = resolveOutputFormat(outPath, format);
+  const ext = path.extname(outPath);
+  if (ext === '') return null;
+  const named = formatFromExtension(outPath);
+  const writes = `it is written as ${FORMAT_TITLES[resolved]}`;
+  if (named !== null && named !== resolved) {
+    return `${outPath}: the extension ${ext} names ${FORMAT_TITLES[named]}, but ${writes} (--format ${resolved}); rename the output or drop --format`;
+  }
+  if (named === null && format === undefined) {
+    return `${outPath}: ${ext} is not a table format meltsweep writes, so ${writes}; use .arrow, .parquet or .csv, or give --format`;
+  }
+  return null;
+}
+
 /**
  * A companion table's path: the output's extension kept, `.<suffix>` put before it
  * (`r7.arrow` -> `r7.profiles.arrow`, `r7` -> `r7.profiles`).

@@ -37,6 +37,11 @@ export type ColumnFn = (scenario: Scenario, model: ModelOptions) => ColumnResult
 export interface MeltingSummary {
   /** pressure where melting starts, GPa */
   readonly onsetPGpa: number;
+  /**
+   * melt fraction at onsetPGpa: 0, except for a capped onset (melting under way at the deepest
+   * pressure the model covers, capped-onset.ts); such a row is marked onset_capped = 1, f_at_cap = fOnset
+   */
+  readonly fOnset?: number;
   /** pressure where melting stops: the shallowest point where F still increases, GPa */
   readonly topPGpa: number;
   /** largest melt fraction along the column */
@@ -140,10 +145,14 @@ export function meltingResult(s: MeltingSummary, scenario: Scenario, p: MeltPara
     crust_km: crustKmFromMeltIntegral(s.meltIntegralGpa, p),
     t_top_c: s.tTopC,
     h2o_melt_wt_pct: s.meltIntegralGpa > 0 ? s.waterIntegralWtPctGpa / s.meltIntegralGpa : 0,
-    productivity_pct_per_gpa: productivityPctPerGpa(0, s.fTop, s.onsetPGpa, s.topPGpa),
+    productivity_pct_per_gpa: productivityPctPerGpa(s.fOnset ?? 0, s.fTop, s.onsetPGpa, s.topPGpa),
     melt_flux_kg_m2_yr: meltFluxKgM2Yr(scenario.upwelling_mm_yr, s.fMax, p),
     surface_heat_flow_mw_m2: s.surfaceHeatFlowMwM2 ?? null,
   };
+  if (s.fOnset !== undefined) {
+    row.onset_capped = 1;
+    row.f_at_cap = s.fOnset;
+  }
   if (s.profile !== undefined) row.profile = s.profile;
   return checkFinite(row);
 }

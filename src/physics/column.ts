@@ -36,11 +36,23 @@ export function meltColumn(scenario: Scenario, model: ModelOptions): ColumnResul
   try {
     const name = resolveThermalModel(scenario, model);
     const fn = Object.prototype.hasOwnProperty.call(THERMAL_MODELS, name) ? THERMAL_MODELS[name] : undefined;
-    if (fn === undefined) return failedResult(`unknown thermal model ${String(model.thermal)}`);
-    return checkFinite(fn(scenario, model));
+    if (fn === undefined) return withCapFields(failedResult(`unknown thermal model ${String(model.thermal)}`), model);
+    return withCapFields(checkFinite(fn(scenario, model)), model);
   } catch (err) {
-    return failedResult(`column: ${err instanceof Error ? err.message : String(err)}`);
+    return withCapFields(failedResult(`column: ${err instanceof Error ? err.message : String(err)}`), model);
   }
+}
+
+/**
+ * With deepOnset `cap` every row carries onset_capped (1 capped, 0 other computed rows, null when
+ * not computed) and f_at_cap (null unless capped); without it the row has neither (old tables).
+ */
+function withCapFields(row: ColumnResult, model: ModelOptions): ColumnResult {
+  if (model.deepOnset !== 'cap') return row;
+  const computed = row.status === 'ok' || row.status === 'no_melt';
+  row.onset_capped = computed ? (row.onset_capped ?? 0) : null;
+  row.f_at_cap = computed ? (row.f_at_cap ?? null) : null;
+  return row;
 }
 
 /**

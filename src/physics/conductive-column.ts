@@ -34,7 +34,7 @@ import { farFieldTempK } from './conductive-far-field.js';
 import { buildNodeMeltTable } from './conductive-melt.js';
 import { type ConductiveSystem, solveConductiveSystem } from './conductive-solver.js';
 import { batchMeltWaterWtPct, wetSolidusC } from './melting.js';
-import { findMeltOnset } from './onset.js';
+import { beyondRangeReason, findMeltOnset } from './onset.js';
 import type { MeltParams } from './params.js';
 import { MODEL_MAX_P_GPA, type ColumnProfile, type ColumnResult, type ModelOptions, type Scenario } from './types.js';
 import { depthKmFromPGpa, KELVIN_OFFSET, mPerSFromMmPerYr, PA_PER_GPA, pGpaFromDepthKm, wtPctFromPpm } from './units.js';
@@ -67,6 +67,8 @@ export interface ConductiveState {
   readonly lidM: number;
   /** onset of melting on the solid adiabat, GPa (null when the adiabat does not melt below the lid) */
   readonly adiabaticOnsetPGpa: number | null;
+  /** melting is under way at the deepest node allowed to melt, at MODEL_MAX_P_GPA (deep_onset: cap) */
+  readonly onsetCapped: boolean;
   /** index of the deepest node with F > 0, or -1 */
   readonly onsetIndex: number;
   /** index of the shallowest node where F still increases (melting stops above it), or -1 */
@@ -126,15 +128,12 @@ function solveUnchecked(scenario: Scenario, model: ModelOptions, domain: Conduct
     return fail(`the lid base at ${pLidGpa.toFixed(3)} GPa is deeper than the model range (${MODEL_MAX_P_GPA} GPa)`);
   }
   const onset = findMeltOnset(tpC, x0, pLidGpa, p);
-  if (onset.kind === 'beyond') {
-    return {
-      kind: 'onset_beyond_range',
-      reason:
-        `melting starts deeper than ${onset.pMaxGpa} GPa, the deepest pressure the model covers: ` +
-        `at ${onset.pMaxGpa} GPa the adiabat (${onset.tAdiabatC.toFixed(1)} degC) is already above the solidus (${onset.tSolidusC.toFixed(1)} degC)`,
-    };
-  }
-  const onsetPGpa = onset.kind === 'onset' ? onset.pGpa : null;
+  if (onset.kind === 'beyond' && model.deepOnset !== 'cap') return { kind: 'onset_beyond_range', reason: beyondRangeReason(onset) };
+  // a capped onset (deep_onset: cap): the grid has a node at the cap pressure, the deepest that may
+  // melt; the superheated solid arriving there melts at once, its latent heat taken from the sensible
+  // heat by the node's energy balance (the conductive form of capped-onset.ts)
+  const capped = onset.kind === 'beyond';
+  const onsetPGpa = onset.kind === 'onset' ? onset.pGpa : onset.kind === 'beyond' ? onset.pMaxGpa : null;
 
   const wMPerS = mPerSFromMmPerYr(wMmYr);
   const kappa = p.k / (p.rho_s * p.c_P);
@@ -153,7 +152,8 @@ function solveUnchecked(scenario: Scenario, model: ModelOptions, domain: Conduct
   const sys: ConductiveSystem = {
     zM,
     pPa,
-    melt: buildNodeMeltTable(pGpa, x0, p, MODEL_MAX_P_GPA),
+    // capped: the node at the cap (its pressure rounded from depth) must melt
+    melt: buildNodeMeltTable(pGpa, x0, p, capped ? MODEL_MAX_P_GPA * (1 + 1e-12) : MODEL_MAX_P_GPA),
     lidM,
     tSurfaceK: p.T_surface + KELVIN_OFFSET,
     tBottomK: farFieldTempK(tpC, zM[nodes - 1], wMPerS, kappa, p),
@@ -185,7 +185,8 @@ function solveUnchecked(scenario: Scenario, model: ModelOptions, domain: Conduct
       zM, pGpa, tC, f: sol.f, fEq: sol.fEq,
       surfaceHeatFlowMwM2: sol.surfaceHeatFlowWM2 * 1000,
       wMPerS, kappaM2S: kappa, lidM,
-      adiabaticOnsetPGpa: onsetPGpa,
+      adiabaticOnsetPGpa: capped ? null : onsetPGpa,
+      onsetCapped: capped,
       onsetIndex, meltStopIndex,
       iterations: sol.iterations,
     },
@@ -220,9 +221,10 @@ export function conductiveColumn(scenario: Scenario, model: ModelOptions, domain
 function summarize(s: ConductiveState, x0: number, p: MeltParams, withProfile: boolean): MeltingSummary {
   const { pGpa, tC, f } = s;
   const io = s.onsetIndex;
-  // onset between node io (F > 0) and io + 1 (F = 0), where the wet-solidus excess changes sign
+  // onset between node io (F > 0) and io + 1 (F = 0), where the wet-solidus excess changes sign;
+  // a capped onset is the cap node itself, where F jumps from 0 to f[io]
   let onsetPGpa = pGpa[io];
-  if (io + 1 < pGpa.length) {
+  if (io + 1 < pGpa.length && !s.onsetCapped) {
     const exHere = s.fEq[io] > 0 ? excessC(tC[io], pGpa[io], x0, p) : 0;
     const exBelow = excessC(tC[io + 1], pGpa[io + 1], x0, p);
     const frac = exHere > 0 && exBelow < exHere ? exHere / (exHere - exBelow) : 0;
@@ -247,7 +249,23 @@ function summarize(s: ConductiveState, x0: number, p: MeltParams, withProfile: b
     waterInt += 0.5 * (water[i] + water[i + 1]) * dp;
   }
   let profile: ColumnProfile | undefined;
-  if (withProfile) {
+  if (withProfile && s.onsetCapped) {
+    // the capped onset is node io itself: the profile is the nodes from there up
+    const n = io + 1;
+    const pr = {
+      p_gpa: new Float64Array(n), depth_km: new Float64Array(n), t_c: new Float64Array(n),
+      f: new Float64Array(n), h2o_melt_wt_pct: new Float64Array(n),
+    };
+    for (let k = 0; k < n; k++) {
+      const i = io - k;
+      pr.p_gpa[k] = pGpa[i];
+      pr.depth_km[k] = s.zM[i] / 1000;
+      pr.t_c[k] = tC[i];
+      pr.f[k] = f[i];
+      pr.h2o_melt_wt_pct[k] = x0 > 0 ? water[i] / f[i] : 0;
+    }
+    profile = pr;
+  } else if (withProfile) {
     const n = io + 2;
     const pr = {
       p_gpa: new Float64Array(n), depth_km: new Float64Array(n), t_c: new Float64Array(n),
@@ -272,6 +290,7 @@ function summarize(s: ConductiveState, x0: number, p: MeltParams, withProfile: b
   const topPGpa = stop === io && onsetPGpa <= pGpa[io] ? pGpa[Math.max(0, io - 1)] : pGpa[stop];
   return {
     onsetPGpa,
+    ...(s.onsetCapped ? { fOnset: f[io] } : {}),
     topPGpa,
     fMax: f[0],
     fTop: f[0],

@@ -44,6 +44,15 @@ export const RESULT_NUMERIC_FIELDS = [
   { name: 'surface_heat_flow_mw_m2', unit: 'mW/m2', kind: 'float64', nullable: true, description: 'conductive heat flow through the lid (conductive runs only)', label: 'surface heat flow', displayUnit: 'mW/m²' },
 ] as const satisfies readonly FieldInfo[];
 
+/**
+ * Result fields of sweeps with `model.deep_onset: cap` only (after RESULT_NUMERIC_FIELDS), so tables
+ * of every other sweep keep their columns.
+ */
+export const CAPPED_ONSET_FIELDS = [
+  { name: 'onset_capped', unit: 'flag', kind: 'float64', nullable: true, description: 'deep_onset: cap only. 1 when the onset lies deeper than the model range (8 GPa) and the column was computed from 8 GPa up, melting already under way there (onset_p_gpa is then 8, a lower bound; crust_km, f_mean and f_max are lower bounds); 0 for other computed rows; null when not computed', label: 'onset capped', displayUnit: '' },
+  { name: 'f_at_cap', unit: 'fraction', kind: 'float64', nullable: true, description: 'deep_onset: cap only. melt fraction at 8 GPa where a capped column starts (isentropic melting at 8 GPa from the solid adiabat); null for rows not capped', label: 'melt fraction at the cap', displayUnit: '' },
+] as const satisfies readonly FieldInfo[];
+
 export type ResultNumericName = (typeof RESULT_NUMERIC_FIELDS)[number]['name'];
 export const RESULT_NUMERIC_NAMES: readonly ResultNumericName[] = RESULT_NUMERIC_FIELDS.map((f) => f.name);
 

@@ -31,6 +31,7 @@
  * While F is held in batch mode with a saturated melt, W = F X_sat(P) is integrated in closed form.
  */
 import { adiabatTempK } from './adiabat.js';
+import type { PathStart } from './capped-onset.js';
 import { onsetIntervalIntegral, type IsentropicPath } from './isentropic-path.js';
 import { IsentropicStepper } from './isentropic-step.js';
 import { setMeltingCurves, waterSaturationLowerBound, waterSaturationSlope, waterSaturationWtPct } from './melting.js';
@@ -96,6 +97,8 @@ class AdaptiveIntegrator {
   held = false;
   cpx0 = false; // F at or past cpx exhaustion
   fromOnset = true;
+  /** whether the path starts at the onset (F = 0), not from a capped start */
+  onsetStart = true;
   /** kind of the kink just crossed: not detected again in the next step (the path may ride along it) */
   skipKind = EV_NONE;
   // history for the cubic predictor (the point before p0, in the same smooth stretch)
@@ -135,31 +138,38 @@ class AdaptiveIntegrator {
     mode: WaterMode,
     readonly tol: number,
     withProfile: boolean,
+    start: PathStart | undefined,
   ) {
     const s = new IsentropicStepper(p, mode, x0);
     this.s = s;
     this.fHi = s.fractional ? 1 - 1e-12 : 1;
     this.D = p.D_H2O;
     this.tolDf = 1e-5 * tol * F_FLOOR;
+    // start: F = 0 on the solid adiabat at the onset, or a state already melting (capped onset)
+    const fStart = start?.f ?? 0;
+    this.fromOnset = start === undefined;
+    this.onsetStart = start === undefined;
+    this.f0 = fStart;
     this.p0 = onsetPGpa;
-    this.t0K = adiabatTempK(tpC, onsetPGpa, p);
+    this.t0K = start?.tK ?? adiabatTempK(tpC, onsetPGpa, p);
     this.logT0 = Math.log(this.t0K);
-    this.xr0 = x0;
+    this.xr0 = start?.xResidueWtPct ?? x0;
+    this.w0 = start?.waterExtractedWtPct ?? 0;
     const xs0 = waterSaturationWtPct(onsetPGpa, p);
-    this.xm0 = x0 > 0 ? Math.min(x0 / this.D, xs0) : 0;
+    this.xm0 = start?.xMeltWtPct ?? (x0 > 0 ? Math.min(x0 / this.D, xs0) : 0);
     setMeltingCurves(s.curves, onsetPGpa, p);
     s.xs = xs0;
     s.xsPath = xs0;
-    s.f0 = 0;
-    s.xr0 = x0;
+    s.f0 = fStart;
+    s.xr0 = this.xr0;
     s.dPPa = 0;
     s.logT0 = this.logT0;
-    s.residual(0);
-    this.fp0 = s.slopes(0, onsetPGpa);
+    s.residual(fStart);
+    this.fp0 = s.slopes(fStart, onsetPGpa);
     this.wp0 = s.wP;
     this.sat0 = x0 > 0 && s.sat;
-    this.cpx0 = s.curves.fCpx <= 0;
-    if (withProfile) this.prof = { p: [onsetPGpa], t: [this.t0K - KELVIN_OFFSET], f: [0], x: [this.xm0] };
+    this.cpx0 = s.curves.fCpx <= 0 || fStart >= s.curves.fCpx;
+    if (withProfile) this.prof = { p: [onsetPGpa], t: [this.t0K - KELVIN_OFFSET], f: [fStart], x: [this.xm0] };
   }
 
   /** Set the stepper's constants for a step from the state at p0 to p1. */
@@ -203,7 +213,7 @@ class AdaptiveIntegrator {
       this.gq = 3;
       return;
     }
-    if (this.steps === 1 && this.p.beta1 > 1) {
+    if (this.steps === 1 && this.onsetStart && this.p.beta1 > 1) {
       // one step above the onset: y = a Delta^m + b Delta^n fitted to the value and slope at p0
       const d1 = this.onsetPGpa - this.p0;
       const d2 = this.onsetPGpa - p1;
@@ -563,6 +573,8 @@ function saturationIntegral(pGpa: number, p: MeltParams): number {
  * integrateIsentropicPath; `steps` counts accepted steps, including the steps across kinks.
  *
  * @param tolerance relative tolerance, TOLERANCE_MIN..TOLERANCE_MAX (default DEFAULT_TOLERANCE)
+ * @param start state at onsetPGpa when melting is already under way there (a capped onset,
+ *   capped-onset.ts); absent: F = 0 on the solid adiabat
  */
 export function integrateIsentropicPathAdaptive(
   tpC: number,
@@ -573,13 +585,14 @@ export function integrateIsentropicPathAdaptive(
   p: MeltParams,
   tolerance: number = DEFAULT_TOLERANCE,
   withProfile = false,
+  start?: PathStart,
 ): IsentropicPath {
   const span = onsetPGpa - topPGpa;
   if (!(span > 0)) throw new Error(`isentropic path: onset ${onsetPGpa} GPa is not below top ${topPGpa} GPa`);
   if (!(tolerance >= TOLERANCE_MIN && tolerance <= TOLERANCE_MAX)) {
     throw new Error(`isentropic path: tolerance ${tolerance} is outside ${TOLERANCE_MIN}-${TOLERANCE_MAX}`);
   }
-  const it = new AdaptiveIntegrator(tpC, bulkWaterWtPct, onsetPGpa, topPGpa, p, mode, tolerance, withProfile);
+  const it = new AdaptiveIntegrator(tpC, bulkWaterWtPct, onsetPGpa, topPGpa, p, mode, tolerance, withProfile, start);
   it.run();
   const x0 = bulkWaterWtPct;
   const f0 = it.f0;

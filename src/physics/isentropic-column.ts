@@ -37,7 +37,8 @@
 import { adiabatTempK } from './adiabat.js';
 import { IsentropicStepper } from './isentropic-step.js';
 import { setMeltingCurves, waterSaturationLowerBound, waterSaturationSlope, waterSaturationWtPct } from './melting.js';
-import { findMeltOnset } from './onset.js';
+import { cappedStart, type PathStart } from './capped-onset.js';
+import { beyondRangeReason, findMeltOnset } from './onset.js';
 import { onsetIntervalIntegral, type IsentropicPath } from './isentropic-path.js';
 import { DEFAULT_TOLERANCE, integrateIsentropicPathAdaptive, TOLERANCE_MAX, TOLERANCE_MIN } from './isentropic-adaptive.js';
 import type { MeltParams } from './params.js';
@@ -62,6 +63,8 @@ export const DEFAULT_STEP_GPA = 0.05;
  * @param p parameter set
  * @param stepGpa pressure step, GPa (default DEFAULT_STEP_GPA)
  * @param withProfile also return the arrays along the path (the only allocation proportional to steps)
+ * @param start state at onsetPGpa when melting is already under way there (a capped onset,
+ *   capped-onset.ts); absent: F = 0 on the solid adiabat
  */
 export function integrateIsentropicPath(
   tpC: number,
@@ -72,6 +75,7 @@ export function integrateIsentropicPath(
   p: MeltParams,
   stepGpa: number = DEFAULT_STEP_GPA,
   withProfile = false,
+  start?: PathStart,
 ): IsentropicPath {
   const span = onsetPGpa - topPGpa;
   if (!(span > 0)) throw new Error(`isentropic path: onset ${onsetPGpa} GPa is not below top ${topPGpa} GPa`);
@@ -84,15 +88,16 @@ export function integrateIsentropicPath(
   const D = p.D_H2O;
   const x0 = bulkWaterWtPct;
 
-  let f0 = 0;
-  let t0K = adiabatTempK(tpC, onsetPGpa, p);
-  let xr0 = x0;
+  const fStart = start?.f ?? 0;
+  let f0 = fStart;
+  let t0K = start?.tK ?? adiabatTempK(tpC, onsetPGpa, p);
+  let xr0 = start?.xResidueWtPct ?? x0;
   const xs0 = waterSaturationWtPct(onsetPGpa, p);
-  let xm0 = x0 > 0 ? Math.min(x0 / D, xs0) : 0;
-  let w0 = 0; // water carried by the melt per unit mass of source
+  let xm0 = start?.xMeltWtPct ?? (x0 > 0 ? Math.min(x0 / D, xs0) : 0);
+  let w0 = start?.waterExtractedWtPct ?? 0; // water carried by the melt per unit mass of source
   let meltInt = 0;
   let waterInt = 0;
-  let fMax = 0;
+  let fMax = fStart;
   let lastDf = 0;
   let lastDp = 0;
   let fpPrev = Number.NaN;
@@ -101,12 +106,12 @@ export function integrateIsentropicPath(
   setMeltingCurves(s.curves, onsetPGpa, p);
   s.xs = xs0;
   s.xsPath = xs0;
-  s.f0 = 0;
-  s.xr0 = x0;
+  s.f0 = fStart;
+  s.xr0 = xr0;
   s.dPPa = 0;
   s.logT0 = Math.log(t0K);
-  s.residual(0);
-  let fp0 = s.slopes(0, onsetPGpa);
+  s.residual(fStart);
+  let fp0 = s.slopes(fStart, onsetPGpa);
   let wp0 = s.wP;
 
   let prof: { p_gpa: Float64Array; depth_km: Float64Array; t_c: Float64Array; f: Float64Array; h2o_melt_wt_pct: Float64Array } | undefined;
@@ -116,7 +121,7 @@ export function integrateIsentropicPath(
     prof.p_gpa[0] = onsetPGpa;
     prof.depth_km[0] = depthKmFromPGpa(onsetPGpa, p.rho_s, p.g);
     prof.t_c[0] = t0K - KELVIN_OFFSET;
-    prof.f[0] = 0;
+    prof.f[0] = fStart;
     prof.h2o_melt_wt_pct[0] = xm0;
   }
 
@@ -186,7 +191,7 @@ export function integrateIsentropicPath(
     } else if (!s.fractional && s.sat && s.xm > 0) {
       wp1 = f1 * waterSaturationSlope(p1, p); // batch with F held: W = F X_sat(P)
     }
-    if (k === 1 && onCurve && p.beta1 > 1 && Number.isFinite(fp1) && Number.isFinite(wp1)) {
+    if (k === 1 && fStart === 0 && onCurve && p.beta1 > 1 && Number.isFinite(fp1) && Number.isFinite(wp1)) {
       // onset interval: F (and W) start as a Delta^beta1 + b Delta^(2 beta1 - 1), Delta = P_onset - P
       // (T - T_solidus ~ F^(1/beta1) + F); fit both terms to the value and slope at the step end
       meltInt += onsetIntervalIntegral(f1, -fp1, dP, p.beta1);
@@ -268,19 +273,18 @@ export function isentropicColumn(scenario: Scenario, model: ModelOptions): Colum
     }
     const onset = findMeltOnset(tpC, x0, pTop, p);
     if (onset.kind === 'none') return noMeltResult(scenario.upwelling_mm_yr);
-    if (onset.kind === 'beyond') {
-      return onsetBeyondRangeResult(
-        `melting starts deeper than ${onset.pMaxGpa} GPa, the deepest pressure the model covers: ` +
-          `at ${onset.pMaxGpa} GPa the adiabat (${onset.tAdiabatC.toFixed(1)} degC) is already above the solidus (${onset.tSolidusC.toFixed(1)} degC)`,
-      );
-    }
+    if (onset.kind === 'beyond' && model.deepOnset !== 'cap') return onsetBeyondRangeResult(beyondRangeReason(onset));
+    // a capped onset starts melted at the deepest covered pressure (capped-onset.ts)
+    const start = onset.kind === 'beyond' ? cappedStart(tpC, x0, onset.pMaxGpa, model.water, p) : undefined;
+    const onsetPGpa = onset.kind === 'beyond' ? onset.pMaxGpa : onset.pGpa;
     const path =
       stepGpa !== undefined
-        ? integrateIsentropicPath(tpC, x0, onset.pGpa, pTop, model.water, p, stepGpa, model.withProfile === true)
-        : integrateIsentropicPathAdaptive(tpC, x0, onset.pGpa, pTop, model.water, p, tolerance, model.withProfile === true);
+        ? integrateIsentropicPath(tpC, x0, onsetPGpa, pTop, model.water, p, stepGpa, model.withProfile === true, start)
+        : integrateIsentropicPathAdaptive(tpC, x0, onsetPGpa, pTop, model.water, p, tolerance, model.withProfile === true, start);
     return meltingResult(
       {
-        onsetPGpa: onset.pGpa,
+        onsetPGpa,
+        ...(start === undefined ? {} : { fOnset: start.f }),
         topPGpa: pTop,
         fMax: path.fMax,
         fTop: path.fTop,

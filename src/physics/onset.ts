@@ -121,3 +121,11 @@ function refineRoot(excess: (pGpa: number) => number, lo0: number, glo0: number,
   }
   return 0.5 * (lo + hi);
 }
+
+/** The reason of an `onset_beyond_range` row (the same words for every thermal model). */
+export function beyondRangeReason(onset: Extract<OnsetResult, { kind: 'beyond' }>): string {
+  return (
+    `melting starts deeper than ${onset.pMaxGpa} GPa, the deepest pressure the model covers: ` +
+    `at ${onset.pMaxGpa} GPa the adiabat (${onset.tAdiabatC.toFixed(1)} degC) is already above the solidus (${onset.tSolidusC.toFixed(1)} degC)`
+  );
+}

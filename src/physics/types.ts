@@ -43,7 +43,17 @@ export interface ModelOptions {
   readonly conductiveResolution?: number;
   /** conductive column: cap on Newton steps per continuation stage (default 60) */
   readonly conductiveMaxIterations?: number;
+  /**
+   * onsets deeper than MODEL_MAX_P_GPA: `drop` (default) gives onset_beyond_range rows; `cap`
+   * computes the column from MODEL_MAX_P_GPA up, already melting there (capped-onset.ts), and every
+   * computed row carries onset_capped and f_at_cap (isentropic columns only)
+   */
+  readonly deepOnset?: DeepOnset;
 }
+
+/** What a column does with an onset deeper than the model covers (model.deep_onset). */
+export const DEEP_ONSET_MODES = ['drop', 'cap'] as const;
+export type DeepOnset = (typeof DEEP_ONSET_MODES)[number];
 
 /** Arrays along the column, from onset (deepest) to the top of melting. */
 export interface ColumnProfile {
@@ -75,6 +85,13 @@ export interface ColumnResult {
   productivity_pct_per_gpa: number | null;
   melt_flux_kg_m2_yr: number | null;
   surface_heat_flow_mw_m2: number | null;
+  /**
+   * only with deepOnset `cap`: 1 when the onset lies deeper than MODEL_MAX_P_GPA and the column
+   * was computed from there up, 0 for the other computed rows, null for rows not computed
+   */
+  onset_capped?: number | null;
+  /** only with deepOnset `cap`: melt fraction at the cap pressure of a capped row, else null */
+  f_at_cap?: number | null;
   profile?: ColumnProfile;
 }
 

@@ -4,7 +4,7 @@
  * field registry of src/physics/fields.ts; ranges are those of src/physics/ranges.ts.
  */
 import { meltColumn, resolveThermalModel } from '../physics/column.js';
-import { INPUT_FIELDS, PROFILE_FIELDS, RESULT_NUMERIC_FIELDS } from '../physics/fields.js';
+import { CAPPED_ONSET_FIELDS, INPUT_FIELDS, PROFILE_FIELDS, RESULT_NUMERIC_FIELDS } from '../physics/fields.js';
 import { resolveParams } from '../physics/params.js';
 import { INPUT_RANGES } from '../physics/ranges.js';
 import { COLUMN_STATUSES, type ColumnResult, type ModelOptions, type Scenario } from '../physics/types.js';
@@ -30,6 +30,8 @@ export const DECOMPRESSION_INPUTS: readonly InputDef[] = Object.freeze(
 
 /** The result fields in table order. */
 export const DECOMPRESSION_RESULTS: readonly ResultDef[] = RESULT_NUMERIC_FIELDS;
+/** The result fields of a sweep with deep_onset: cap (the capped-onset marks at the end). */
+const CAPPED_RESULTS: readonly ResultDef[] = Object.freeze([...RESULT_NUMERIC_FIELDS, ...CAPPED_ONSET_FIELDS]);
 
 /**
  * The row of one column. The ColumnResult itself is handed over as `values` (it holds every
@@ -51,6 +53,8 @@ export const decompression: ProcessDefinition<ModelOptions> = {
     'melting of mantle rising beneath a ridge or plume: isentropic (or conductive with an upwelling rate), dry or wet, stopped at the base of a lid',
   inputsFor: () => DECOMPRESSION_INPUTS,
   results: DECOMPRESSION_RESULTS,
+  optionalResults: CAPPED_ONSET_FIELDS,
+  resultsFor: (m) => ((m as DecompressionModelSpec).deep_onset === 'cap' ? CAPPED_RESULTS : DECOMPRESSION_RESULTS),
   statuses: COLUMN_STATUSES,
   model: {
     keys: MODEL_KEYS,
@@ -60,7 +64,8 @@ export const decompression: ProcessDefinition<ModelOptions> = {
     summary(m) {
       const model = m as DecompressionModelSpec;
       const accuracy = model.step_gpa !== undefined ? `step ${model.step_gpa} GPa` : `tolerance ${model.tolerance ?? TOLERANCE_DEFAULT}`;
-      return `thermal ${model.thermal}, water ${model.water}, ${accuracy}`;
+      const deep = model.deep_onset === 'cap' ? ', onsets deeper than 8 GPa capped' : '';
+      return `thermal ${model.thermal}, water ${model.water}, ${accuracy}${deep}`;
     },
     checkInputs(model, given, problems) {
       if ((model as DecompressionModelSpec).thermal !== 'conductive' || given.has('upwelling_mm_yr')) return;
@@ -75,6 +80,7 @@ export const decompression: ProcessDefinition<ModelOptions> = {
       params: resolveParams(model.params),
       ...(model.step_gpa !== undefined ? { stepGpa: model.step_gpa } : { tolerance: model.tolerance ?? TOLERANCE_DEFAULT }),
       withProfile: options.withProfile,
+      deepOnset: model.deep_onset ?? 'drop',
     };
   },
   compute: computeDecompression,

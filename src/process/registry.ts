@@ -9,7 +9,7 @@
 import { InputError } from '../errors.js';
 import type { SweepSpec } from '../spec/types.js';
 import { decompression } from './decompression.js';
-import type { AnyProcess, InputDef, ProcessDefinition } from './types.js';
+import type { AnyProcess, InputDef, ProcessDefinition, ResultDef } from './types.js';
 
 /** Name of the process used when a sweep file or command names none. */
 export const DEFAULT_PROCESS = 'decompression';
@@ -77,6 +77,21 @@ export function processOfSpec(spec: SweepSpec): AnyProcess {
 /** The inputs of a spec's process under the spec's model options, in table order. */
 export function inputsOfSpec(spec: SweepSpec): readonly InputDef[] {
   return processOfSpec(spec).inputsFor(spec.model);
+}
+
+/** The result fields of a process under a model section, in table order. */
+export function resultsOf(process: AnyProcess, model: SweepSpec['model']): readonly ResultDef[] {
+  return process.resultsFor?.(model) ?? process.results;
+}
+
+/** The result fields of a spec's process under the spec's model options, in table order. */
+export function resultsOfSpec(spec: SweepSpec): readonly ResultDef[] {
+  return resultsOf(processOfSpec(spec), spec.model);
+}
+
+/** Every result field a process can write: `results`, then the optional ones. */
+export function everyResultOf(process: AnyProcess): readonly ResultDef[] {
+  return [...process.results, ...(process.optionalResults ?? [])];
 }
 
 /**

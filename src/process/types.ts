@@ -57,6 +57,8 @@ export interface ProcessModelOptions {
    * Validate the section (every problem recorded with its path, e.g. `model.thermal`) and
    * return its normalized, JSON-plain form (key order fixed; `process` omitted for the default
    * process so stored specs and hashes of older files do not change), or undefined on a problem.
+   * Wrap it with `describeModelValidator` (src/spec/json-schema.ts) to state each key's JSON Schema
+   * for `meltsweep schema`; without it the sweep-file schema checks the keys by name only.
    */
   validate(raw: Readonly<Record<string, unknown>>, problems: ProblemList): ModelSpec | undefined;
   /** the canonical form of an already valid section (used by normalizeSweep) */
@@ -90,6 +92,13 @@ export interface ProcessDefinition<M = unknown> {
   inputsFor(model: ModelSpec): readonly InputDef[];
   /** its numeric result fields in table order (status and reason are common to all processes) */
   readonly results: readonly ResultDef[];
+  /**
+   * Optional: result fields that model options add after `results` (e.g. the capped-onset marks
+   * of `deep_onset: cap`), listed for labels and the README.
+   */
+  readonly optionalResults?: readonly ResultDef[];
+  /** Optional: the result fields under a model section (absent: always `results`); see resultsOf */
+  resultsFor?(model: ModelSpec): readonly ResultDef[];
   /** the statuses it can produce (a subset of COLUMN_STATUSES) */
   readonly statuses: readonly ColumnStatus[];
   readonly model: ProcessModelOptions;

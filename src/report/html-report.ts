@@ -14,6 +14,7 @@ import type { ModelOptions } from '../physics/types.js';
 import { DEFAULT_PROCESS } from '../process/registry.js';
 import type { DecompressionModelSpec } from '../spec/validate-model.js';
 import { analyzeResultsFile } from '../run/sensitivity-file.js';
+import { cappedNote } from '../run/capped-rows.js';
 import { columnDiagramSpec } from './column-diagram.js';
 import { columnDiagramData, scenarioLabels, type DiagramScenario } from './column-diagram-data.js';
 import { htmlFigure, htmlPage, escapeHtml } from './html.js';
@@ -60,7 +61,7 @@ export function representativeRows(table: ResultsColumns, output: string): { rea
 /** The model a sweep's rows were computed with (parameters as stored in the file). */
 function sweepModel(model: DecompressionModelSpec, params: ModelOptions['params']): ModelOptions {
   const accuracy = model.step_gpa !== undefined ? { stepGpa: model.step_gpa } : model.tolerance !== undefined ? { tolerance: model.tolerance } : {};
-  return defaultModel({ thermal: model.thermal, water: model.water, ...accuracy, params });
+  return defaultModel({ thermal: model.thermal, water: model.water, ...accuracy, params, deepOnset: model.deep_onset ?? 'drop' });
 }
 
 /**
@@ -71,8 +72,11 @@ export async function buildHtmlReport(file: string, options: ReportOptions = {})
   const info = await readResultsInfo(file);
   const { meta, spec } = info;
   const opts = resolveReportOptions(options, spec, info.outputsWithValues, file);
-  const table = await readResultsColumns(file, opts.outputs, meta.rowEnd - meta.rowStart, meta.inputs.map((i) => i.name));
+  const capped = options.capped ?? 'include';
+  const table = await readResultsColumns(file, opts.outputs, meta.rowEnd - meta.rowStart, meta.inputs.map((i) => i.name), capped);
   const notes = [...opts.notes];
+  const cappedText = cappedNote(table.cappedRows ?? null, capped);
+  if (cappedText !== null) notes.push(cappedText);
   const analysisNotes: string[] = [];
   const warnings: string[] = [];
   const plots: { kind: ReportPlotKind; output: string | null }[] = [];
@@ -99,8 +103,8 @@ export async function buildHtmlReport(file: string, options: ReportOptions = {})
   if (meta.rowStart !== 0 || meta.rowEnd !== meta.pointCount) {
     notes.push(`this file is shard ${meta.shard} (rows ${meta.rowStart}-${meta.rowEnd} of ${meta.pointCount}): sensitivity needs the whole sweep, merge the shards first`);
   } else if (opts.outputs.length > 0 && spec.axes.length > 0) {
-    report = await analyzeResultsFile(file, { outputs: opts.outputs, resamples: options.resamples, seed: options.seed });
-    analysisNotes.push(...report.warnings, ...report.notes);
+    report = await analyzeResultsFile(file, { outputs: opts.outputs, resamples: options.resamples, seed: options.seed, capped });
+    analysisNotes.push(...report.warnings, ...report.notes.filter((n) => n !== cappedText));
     const logInputs = new Set<string>(spec.axes.filter((a) => a.scale === 'log').map((a) => a.name));
     for (const output of opts.outputs) {
       const bars = sensitivityBarsSpec(report.records, output, report.inputs);

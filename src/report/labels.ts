@@ -4,11 +4,11 @@
  * display label and display unit ("°C", "km", "wt%", "" for fractions) are looked up, never typed here.
  */
 import { PROFILE_FIELDS, type FieldInfo } from '../physics/fields.js';
-import { allProcesses } from '../process/registry.js';
+import { allProcesses, everyResultOf } from '../process/registry.js';
 
 /** Every field a picture can show: the inputs and numeric outputs of every process (first process first). */
 function registryFields(): FieldInfo[] {
-  return allProcesses().flatMap((p) => [...p.inputsFor({ ...p.model.defaults, params: {} }), ...p.results]);
+  return allProcesses().flatMap((p) => [...p.inputsFor({ ...p.model.defaults, params: {} }), ...everyResultOf(p)]);
 }
 
 /** A registry entry by name: inputs and outputs first, then profile columns. @throws Error for an unknown name */

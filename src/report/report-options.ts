@@ -3,8 +3,10 @@
  * InputError naming the option, the value and what is allowed.
  */
 import { InputError } from '../errors.js';
-import { inputsOfSpec, processOfSpec } from '../process/registry.js';
+import { inputsOfSpec, resultsOfSpec } from '../process/registry.js';
+import { didYouMean } from '../spec/suggest.js';
 import type { SweepSpec } from '../spec/types.js';
+import type { CappedChoice } from '../run/capped-rows.js';
 import { fieldInfo, formatNumber } from './labels.js';
 
 /** What the report shows. Every field is optional; see resolveReportOptions for the defaults. */
@@ -23,6 +25,8 @@ export interface ReportOptions {
   readonly seed?: number;
   /** page title (default: "meltsweep report: <sweep name>") */
   readonly title?: string;
+  /** rows with a capped onset (deep_onset: cap): drawn and analysed (default) or left out */
+  readonly capped?: CappedChoice;
 }
 
 /** Outputs a report shows by default, where they hold values. */
@@ -67,7 +71,8 @@ function sweptCheck(option: string, name: string, spec: SweepSpec): string {
     const held = v === undefined ? 'not given' : `held at ${formatNumber(v)} ${fieldInfo(name).unit}`;
     throw new InputError(`${option}: ${name} is not swept in this sweep (${held}); ${allowed}`);
   }
-  throw new InputError(`${option}: ${JSON.stringify(name)} is not an input; ${allowed}`);
+  const near = didYouMean(name, swept.length > 0 ? swept : inputsOfSpec(spec).map((i) => i.name));
+  throw new InputError(`${option}: ${JSON.stringify(name)} is not an input; ${near}${allowed}`);
 }
 
 /**
@@ -79,7 +84,7 @@ function sweptCheck(option: string, name: string, spec: SweepSpec): string {
 export function resolveReportOptions(o: ReportOptions, spec: SweepSpec, outputsWithValues: readonly string[], file: string): ResolvedReportOptions {
   const notes: string[] = [];
   const problems: string[] = [];
-  const RESULT_NUMERIC_NAMES = processOfSpec(spec).results.map((r) => r.name);
+  const RESULT_NUMERIC_NAMES = resultsOfSpec(spec).map((r) => r.name);
   // the default outputs of the process: the usual ones it has, else all of its outputs
   const usual = DEFAULT_REPORT_OUTPUTS.filter((n) => RESULT_NUMERIC_NAMES.includes(n));
   const defaults = usual.length > 0 ? usual : RESULT_NUMERIC_NAMES;
@@ -87,7 +92,7 @@ export function resolveReportOptions(o: ReportOptions, spec: SweepSpec, outputsW
   if (o.outputs !== undefined) {
     outputs = [];
     for (const name of o.outputs) {
-      if (!(RESULT_NUMERIC_NAMES as readonly string[]).includes(name)) problems.push(`--outputs: ${JSON.stringify(name)} is not an output column; allowed: ${RESULT_NUMERIC_NAMES.join(', ')}`);
+      if (!(RESULT_NUMERIC_NAMES as readonly string[]).includes(name)) problems.push(`--outputs: ${JSON.stringify(name)} is not an output column; ${didYouMean(name, RESULT_NUMERIC_NAMES)}allowed: ${RESULT_NUMERIC_NAMES.join(', ')}`);
       else if (!outputsWithValues.includes(name)) problems.push(`--outputs: ${name} holds no values in ${file}; outputs with values: ${outputsWithValues.join(', ') || 'none'}`);
       else if (!outputs.includes(name)) outputs.push(name);
     }

@@ -10,6 +10,7 @@ import { readResultsMeta, type ResultsTableMeta } from '../io/arrow-schema.js';
 import { readTableBatches, readTableSchema } from '../io/table-reader.js';
 import { COLUMN_STATUSES, type ColumnStatus } from '../physics/types.js';
 import type { SweepSpec } from '../spec/types.js';
+import { CAPPED_FLAG, type CappedChoice } from '../run/capped-rows.js';
 
 /** Columns of a results file, in row order. */
 export interface ResultsColumns {
@@ -21,6 +22,8 @@ export interface ResultsColumns {
   /** index into COLUMN_STATUSES of each row */
   readonly status: Uint8Array;
   readonly statusCounts: Readonly<Record<ColumnStatus, number>>;
+  /** computed rows flagged onset_capped (null or absent: the table has no such column) */
+  readonly cappedRows?: number | null;
 }
 
 /** A results file's metadata, with the sweep it was run from. */
@@ -70,7 +73,14 @@ function copyFloat(target: Float64Array, offset: number, vector: arrow.Vector | 
  * @param rows the row count from the file's metadata (rowEnd - rowStart)
  * @throws InputError when the file holds a different number of rows
  */
-export async function readResultsColumns(file: string, outputs: readonly string[], rows: number, inputNames: readonly string[]): Promise<ResultsColumns> {
+export async function readResultsColumns(
+  file: string,
+  outputs: readonly string[],
+  rows: number,
+  inputNames: readonly string[],
+  capped: CappedChoice = 'include',
+): Promise<ResultsColumns> {
+  let cappedRows: number | null = null;
   const inputs = Object.fromEntries(inputNames.map((n) => [n, new Float64Array(rows)]));
   const outs = Object.fromEntries(outputs.map((n) => [n, new Float64Array(rows)]));
   const status = new Uint8Array(rows);
@@ -87,8 +97,18 @@ export async function readResultsColumns(file: string, outputs: readonly string[
       status[offset + i] = code < 0 ? COLUMN_STATUSES.indexOf('failed') : code;
       statusCounts[COLUMN_STATUSES[status[offset + i]]] += 1;
     }
+    // capped rows: counted; with --capped exclude their outputs read as null (grey map cells)
+    const flag = batch.getChild(CAPPED_FLAG);
+    if (flag !== null) {
+      cappedRows ??= 0;
+      for (let i = 0; i < batch.numRows; i++) {
+        if (flag.get(i) !== 1) continue;
+        cappedRows++;
+        if (capped === 'exclude') for (const n of outputs) outs[n][offset + i] = NaN;
+      }
+    }
     offset += batch.numRows;
   }
   if (offset !== rows) throw new InputError(`${file}: holds ${offset} rows, its metadata says ${rows}`);
-  return { rows, inputs, outputs: outs, status, statusCounts };
+  return { rows, inputs, outputs: outs, status, statusCounts, cappedRows };
 }

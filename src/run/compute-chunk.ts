@@ -6,7 +6,7 @@
 import { COLUMN_STATUSES, type ColumnStatus } from '../physics/types.js';
 import { allocatePointBatch, planSweep } from '../plan/index.js';
 import type { PointBatch, Plan } from '../plan/types.js';
-import { processOfSpec } from '../process/registry.js';
+import { processOfSpec, resultsOf } from '../process/registry.js';
 import type { AnyProcess, ProcessResult } from '../process/types.js';
 import type { SweepSpec } from '../spec/types.js';
 import { profileGridPressures, type ProfileGrid } from './profile-grid.js';
@@ -61,7 +61,7 @@ export function makeChunkContext(spec: SweepSpec, profiles?: ProfileGrid): Chunk
     plan: planSweep(spec),
     process,
     model: process.resolveModel(spec.model, { withProfile }),
-    resultNames: process.results.map((r) => r.name),
+    resultNames: resultsOf(process, spec.model).map((r) => r.name),
     profilePressures: withProfile ? profileGridPressures(profiles) : null,
   };
 }

@@ -15,10 +15,13 @@ import { readTableBatches, readTableSchema } from '../io/table-reader.js';
 import { INPUT_NAMES } from '../physics/fields.js';
 import { COLUMN_STATUSES } from '../physics/types.js';
 import type { SweepSpec } from '../spec/types.js';
+import { CAPPED_FLAG, type CappedChoice } from './capped-rows.js';
 
 /** Statuses of the rows, in code order; anything else is counted as 'unknown' and left out. */
-const FIT_STATUSES: readonly string[] = [...COLUMN_STATUSES, 'unknown'];
+/** Row classes of a fit: the statuses, ok rows with a capped onset (counted apart), unknown. */
+const FIT_STATUSES: readonly string[] = [...COLUMN_STATUSES, CAPPED_FLAG, 'unknown'];
 const UNKNOWN = FIT_STATUSES.length - 1;
+const CAPPED = FIT_STATUSES.indexOf(CAPPED_FLAG);
 
 /** What to fit. */
 export interface FitFileOptions {
@@ -27,6 +30,11 @@ export interface FitFileOptions {
   readonly discrepancies?: readonly { readonly output: string; readonly sd: number }[];
   /** outputs whose posterior predictive is summarised */
   readonly predict?: readonly string[];
+  /**
+   * ok rows with a capped onset (deep_onset: cap): used (default) or left out; counted apart as
+   * `onset_capped` in the rows used or left out either way
+   */
+  readonly capped?: CappedChoice;
 }
 
 /** A fitted results file. */
@@ -138,6 +146,13 @@ function statusCodes(vector: arrow.Vector | null, n: number, out: Uint8Array): U
   return out;
 }
 
+/** Ok rows flagged onset_capped = 1 get their own code (CAPPED). */
+function markCapped(codes: Uint8Array, flag: Float64Array | null, n: number): Uint8Array {
+  if (flag === null) return codes;
+  for (let i = 0; i < n; i++) if (flag[i] === 1 && codes[i] === 0) codes[i] = CAPPED;
+  return codes;
+}
+
 /** A row of a batch as plain JSON values (int64 as numbers). */
 function plainRow(batch: arrow.RecordBatch, r: number): Record<string, unknown> {
   const out: Record<string, unknown> = {};
@@ -180,7 +195,7 @@ export async function fitResultsFile(file: string, options: FitFileOptions): Pro
     predict: checked.predict,
     units,
     statuses: FIT_STATUSES,
-    leaveOut: ['failed', 'onset_beyond_range', 'unknown'],
+    leaveOut: ['failed', 'onset_beyond_range', 'unknown', ...(options.capped === 'exclude' ? [CAPPED_FLAG] : [])],
     expectedRows: meta.rowEnd - meta.rowStart,
   });
   const inputNames = prior.axes.map((a) => a.name);
@@ -206,7 +221,7 @@ export async function fitResultsFile(file: string, options: FitFileOptions): Pro
       rows: n,
       inputs: Object.fromEntries(inputNames.map((name) => [name, col(name)])),
       outputs: Object.fromEntries(acc.stored.map((name) => [name, col(name)])),
-      status: statusCodes(batch.getChild('status'), n, status),
+      status: markCapped(statusCodes(batch.getChild('status'), n, status), batch.getChild(CAPPED_FLAG) === null ? null : col(CAPPED_FLAG), n),
       ids: col('scenario_id'),
     });
     if (best >= 0) bestRow = plainRow(batch, best);

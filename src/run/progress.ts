@@ -4,6 +4,11 @@
  */
 
 export interface ProgressSink {
+  /**
+   * Rows taken over from an interrupted run (`--resume`): counted as done but not as computed, so
+   * the rate and the time left come from the rows this process computes. Call before the first update.
+   */
+  replayed?(rows: number): void;
   update(doneRows: number): void;
   finish(doneRows: number): void;
 }
@@ -32,12 +37,13 @@ export interface ProgressOptions {
 
 export function createProgress(opts: ProgressOptions): ProgressSink {
   const isTty = opts.stream.isTTY === true;
-  const t0 = performance.now();
+  let t0 = performance.now();
+  let startRows = opts.startRows;
   const interval = (opts.lineIntervalS ?? 5) * 1000;
   let lastDraw = 0;
   const describe = (done: number): { pct: number; rate: number; eta: number } => {
     const elapsed = (performance.now() - t0) / 1000;
-    const fresh = done - opts.startRows;
+    const fresh = done - startRows;
     const rate = elapsed > 0 ? fresh / elapsed : 0;
     const remaining = opts.totalRows - done;
     return { pct: opts.totalRows > 0 ? (100 * done) / opts.totalRows : 100, rate, eta: rate > 0 ? remaining / rate : Infinity };
@@ -48,16 +54,22 @@ export function createProgress(opts: ProgressOptions): ProgressSink {
       const width = 28;
       const filled = Math.round((width * pct) / 100);
       const bar = '#'.repeat(filled) + '-'.repeat(width - filled);
+      const kept = startRows > 0 ? ` (${fmtInt(startRows)} resumed)` : '';
       opts.stream.write(
-        `\r[${bar}] ${pct.toFixed(1).padStart(5)}% ${fmtInt(done)}/${fmtInt(opts.totalRows)} rows  ${fmtInt(rate)} columns/s  left ${formatDuration(eta)}${final ? '\n' : ''}`,
+        `\r[${bar}] ${pct.toFixed(1).padStart(5)}% ${fmtInt(done)}/${fmtInt(opts.totalRows)} rows${kept}  ${fmtInt(rate)} columns/s  left ${formatDuration(eta)}${final ? '\n' : ''}`,
       );
     } else {
+      const kept = startRows > 0 ? `, ${fmtInt(startRows)} resumed` : '';
       opts.stream.write(
-        `progress: ${fmtInt(done)}/${fmtInt(opts.totalRows)} rows (${pct.toFixed(1)}%), ${fmtInt(rate)} columns/s, time left ${formatDuration(eta)}\n`,
+        `progress: ${fmtInt(done)}/${fmtInt(opts.totalRows)} rows (${pct.toFixed(1)}%${kept}), ${fmtInt(rate)} columns/s, time left ${formatDuration(eta)}\n`,
       );
     }
   };
   return {
+    replayed(rows: number): void {
+      startRows = opts.startRows + rows;
+      t0 = performance.now();
+    },
     update(done: number): void {
       const now = performance.now();
       if (now - lastDraw < (isTty ? 100 : interval)) return;

@@ -197,6 +197,7 @@ export async function runSweep(opts: RunOptions): Promise<RunSummary> {
     throw err;
   }
   const resumeFrom = store.committedEnd();
+  opts.progress?.replayed?.(resumeFrom - rowStart);
   const chunks: Array<[number, number]> = [];
   for (let s = resumeFrom; s < rowEnd; s += chunkSize) chunks.push([s, Math.min(s + chunkSize, rowEnd)]);
 

@@ -8,12 +8,15 @@ import path from 'node:path';
 import { analyzeSensitivity, type SensitivityReport } from '../analyze/index.js';
 import { InputError } from '../errors.js';
 import { planSweep } from '../plan/index.js';
+import { processNamed } from '../process/registry.js';
+import { didYouMean } from '../spec/suggest.js';
 import type { SweepSpec } from '../spec/types.js';
 import { readResultsMeta } from '../io/arrow-schema.js';
 import { writeFileAtomic } from '../io/ipc-file.js';
 import { formatFromExtension } from '../io/output-format.js';
 import { readTableBatches, readTableSchema } from '../io/table-reader.js';
 import { TOOL_VERSION } from '../version.js';
+import { CAPPED_FLAG, cappedNote, type CappedChoice } from './capped-rows.js';
 
 /**
  * Statuses of rows that were not computed (every number null): left out of the analysis and counted.
@@ -30,6 +33,8 @@ export interface SensitivityFileOptions {
   readonly outputs?: readonly string[];
   readonly resamples?: number;
   readonly seed?: number;
+  /** rows with a capped onset: used (default) or left out, counted either way */
+  readonly capped?: CappedChoice;
 }
 
 /** `r7.arrow` (or .parquet, .csv, ...) -> `r7.sensitivity.arrow`; the sensitivity table is always Arrow IPC. */
@@ -45,6 +50,8 @@ interface Columns {
   readonly outputs: Record<string, Float64Array>;
   readonly include: Uint8Array;
   readonly excludedReasons: Record<string, number>;
+  /** computed rows flagged onset_capped; null when the table has no such column */
+  readonly cappedRows: number | null;
 }
 
 function copyInto(target: Float64Array, offset: number, vector: arrow.Vector): void {
@@ -58,11 +65,18 @@ function copyInto(target: Float64Array, offset: number, vector: arrow.Vector): v
   }
 }
 
-async function readColumns(file: string, inputNames: readonly string[], outputNames: readonly string[], rows: number): Promise<Columns> {
+async function readColumns(
+  file: string,
+  inputNames: readonly string[],
+  outputNames: readonly string[],
+  rows: number,
+  capped: CappedChoice,
+): Promise<Columns> {
   const inputs = Object.fromEntries(inputNames.map((n) => [n, new Float64Array(rows)]));
   const outputs = Object.fromEntries(outputNames.map((n) => [n, new Float64Array(rows)]));
   const include = new Uint8Array(rows);
   const excludedReasons: Record<string, number> = {};
+  let cappedRows: number | null = null;
   let offset = 0;
   for await (const batch of readTableBatches(file)) {
     if (offset + batch.numRows > rows) throw new InputError(`${file}: holds more rows than its metadata says (${rows})`);
@@ -74,10 +88,22 @@ async function readColumns(file: string, inputNames: readonly string[], outputNa
       if (!NOT_COMPUTED_STATUSES.has(s)) include[offset + i] = 1;
       else excludedReasons[s] = (excludedReasons[s] ?? 0) + 1;
     }
+    const flag = batch.getChild(CAPPED_FLAG);
+    if (flag !== null) {
+      cappedRows ??= 0;
+      for (let i = 0; i < batch.numRows; i++) {
+        if (flag.get(i) !== 1 || include[offset + i] === 0) continue;
+        cappedRows++;
+        if (capped === 'exclude') {
+          include[offset + i] = 0;
+          excludedReasons[CAPPED_FLAG] = (excludedReasons[CAPPED_FLAG] ?? 0) + 1;
+        }
+      }
+    }
     offset += batch.numRows;
   }
   if (offset !== rows) throw new InputError(`${file}: holds ${offset} rows, its metadata says ${rows}`);
-  return { rows, inputs, outputs, include, excludedReasons };
+  return { rows, inputs, outputs, include, excludedReasons, cappedRows };
 }
 
 /** The numeric outputs that hold at least one value in the file (null-only columns say nothing). */
@@ -106,17 +132,22 @@ export async function analyzeResultsFile(file: string, options: SensitivityFileO
   // the outputs are the result fields of the table's process (schema metadata meltsweep.process)
   const RESULT_NUMERIC_NAMES = meta.results.map((r) => r.name);
   const available = await outputsWithValues(file, RESULT_NUMERIC_NAMES);
-  const outputs = options.outputs ?? available;
+  // by default the process's own results: marks such as onset_capped are analysed only when asked for
+  const base = new Set(processNamed(meta.process).results.map((r) => r.name));
+  const outputs = options.outputs ?? available.filter((n) => base.has(n));
   for (const o of outputs) {
     if (!RESULT_NUMERIC_NAMES.includes(o)) {
-      throw new InputError(`--outputs: ${o} is not an output column; allowed: ${RESULT_NUMERIC_NAMES.join(', ')}`);
+      throw new InputError(`--outputs: ${JSON.stringify(o)} is not an output column; ${didYouMean(o, RESULT_NUMERIC_NAMES)}allowed: ${RESULT_NUMERIC_NAMES.join(', ')}`);
     }
   }
-  const cols = await readColumns(file, plan.axisNames, outputs, meta.pointCount);
-  return analyzeSensitivity(
+  const capped = options.capped ?? 'include';
+  const cols = await readColumns(file, plan.axisNames, outputs, meta.pointCount, capped);
+  const report = analyzeSensitivity(
     { inputs: cols.inputs, outputs: cols.outputs, include: cols.include, excludedReasons: cols.excludedReasons, layout: plan.layout },
     { resamples: options.resamples, seed: options.seed },
   );
+  const note = cappedNote(cols.cappedRows, capped);
+  return note === null ? report : { ...report, notes: [note, ...report.notes] };
 }
 
 /** Write the report's records as a long-format Arrow file (atomically). */

@@ -56,6 +56,15 @@ export function suggestName(given: string, allowed: readonly string[]): string |
   return best;
 }
 
+/**
+ * "did you mean X; " for a name near one of `allowed` (ready to put before a list of the allowed
+ * names), else "".
+ */
+export function didYouMean(given: string, allowed: readonly string[]): string {
+  const near = suggestName(given, allowed);
+  return near === null || near === given ? '' : `did you mean ${near}? `;
+}
+
 function simplify(s: string): string {
   return s.toLowerCase().replace(/[-_\s]/g, '');
 }

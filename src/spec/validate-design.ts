@@ -10,12 +10,48 @@ import type { DesignKind, DesignSpec } from './types.js';
 /** The design kinds, in the order they are listed in messages. */
 export const DESIGN_KINDS: readonly DesignKind[] = ['grid', 'latin-hypercube', 'sobol', 'saltelli'];
 
+/** A whole-number key of a design (samples, base, skip, seed): its allowed range and default. */
+export interface DesignNumberKey {
+  readonly min: number;
+  readonly max: number;
+  /** true when the design needs the key; otherwise `fallback` applies when it is left out */
+  readonly required: boolean;
+  /** value when left out (undefined: absent from the spec) */
+  readonly fallback?: number;
+  readonly description: string;
+}
+
+const SEED_TEXT = 'seed of the random numbers (the same seed gives the same points on every machine)';
+const SKIP_TEXT = 'leading Sobol points dropped (default 0 keeps the first point)';
+
+/**
+ * The whole-number keys each design kind takes, with their ranges: read by the validator below
+ * and by the JSON Schema of the sweep file (sweep-schema.ts), so the two cannot disagree.
+ */
+export const DESIGN_NUMBER_KEYS: Readonly<Record<DesignKind, Readonly<Record<string, DesignNumberKey>>>> = {
+  grid: {},
+  'latin-hypercube': {
+    samples: { min: 1, max: MAX_POINTS, required: true, description: 'number of points; each axis gets one in each of this many equal-probability strata' },
+    seed: { min: 0, max: MAX_SEED, required: false, fallback: 0, description: `${SEED_TEXT}; default 0` },
+  },
+  sobol: {
+    samples: { min: 1, max: MAX_SOBOL_INDEX, required: true, description: 'number of Sobol points' },
+    skip: { min: 0, max: MAX_SOBOL_INDEX - 1, required: false, fallback: 0, description: SKIP_TEXT },
+    seed: { min: 0, max: MAX_SEED, required: false, description: `${SEED_TEXT}; absent: the unscrambled sequence, present: a random digital shift` },
+  },
+  saltelli: {
+    base: { min: 1, max: MAX_SOBOL_INDEX, required: true, description: 'base N: the design has N (k + 2) points for k swept inputs' },
+    skip: { min: 0, max: MAX_SOBOL_INDEX - 1, required: false, fallback: 0, description: SKIP_TEXT },
+    seed: { min: 0, max: MAX_SEED, required: false, description: `${SEED_TEXT}; absent: the unscrambled sequence, present: a random digital shift` },
+  },
+};
+
 /** Keys each design kind takes. */
 export const DESIGN_KEYS: Readonly<Record<DesignKind, readonly string[]>> = {
-  grid: ['kind'],
-  'latin-hypercube': ['kind', 'samples', 'seed'],
-  sobol: ['kind', 'samples', 'skip', 'seed'],
-  saltelli: ['kind', 'base', 'skip', 'seed'],
+  grid: ['kind', ...Object.keys(DESIGN_NUMBER_KEYS.grid)],
+  'latin-hypercube': ['kind', ...Object.keys(DESIGN_NUMBER_KEYS['latin-hypercube'])],
+  sobol: ['kind', ...Object.keys(DESIGN_NUMBER_KEYS.sobol)],
+  saltelli: ['kind', ...Object.keys(DESIGN_NUMBER_KEYS.saltelli)],
 };
 
 const ALL_DESIGN_KEYS = ['kind', 'samples', 'base', 'skip', 'seed'];
@@ -72,15 +108,8 @@ export function validateDesign(raw: unknown, problems: ProblemList): DesignResul
   return { design: problems.count === before ? design : undefined, kind };
 }
 
-function required(
-  body: Record<string, unknown>,
-  key: string,
-  kind: DesignKind,
-  min: number,
-  max: number,
-  suggested: readonly string[],
-  problems: ProblemList,
-): number | undefined {
+function required(body: Record<string, unknown>, key: string, kind: DesignKind, suggested: readonly string[], problems: ProblemList): number | undefined {
+  const { min, max } = numberKey(kind, key);
   if (body[key] === undefined) {
     // a misspelt key was already reported with this name suggested
     if (suggested.includes(key)) return undefined;
@@ -90,9 +119,16 @@ function required(
   return readWholeNumber(body[key], `design.${key}`, problems, key, min, max);
 }
 
-function optional(body: Record<string, unknown>, key: string, fallback: number | undefined, min: number, max: number, problems: ProblemList): number | undefined {
+function optional(body: Record<string, unknown>, key: string, kind: DesignKind, problems: ProblemList): number | undefined {
+  const { min, max, fallback } = numberKey(kind, key);
   if (body[key] === undefined) return fallback;
   return readWholeNumber(body[key], `design.${key}`, problems, key, min, max);
+}
+
+function numberKey(kind: DesignKind, key: string): DesignNumberKey {
+  const k = DESIGN_NUMBER_KEYS[kind][key];
+  if (k === undefined) throw new Error(`validate-design: ${kind} has no key ${key}`);
+  return k;
 }
 
 function buildDesign(kind: DesignKind, body: Record<string, unknown>, suggested: readonly string[], problems: ProblemList): DesignSpec | undefined {
@@ -100,22 +136,22 @@ function buildDesign(kind: DesignKind, body: Record<string, unknown>, suggested:
     case 'grid':
       return { kind };
     case 'latin-hypercube': {
-      const samples = required(body, 'samples', kind, 1, MAX_POINTS, suggested, problems);
-      const seed = optional(body, 'seed', 0, 0, MAX_SEED, problems);
+      const samples = required(body, 'samples', kind, suggested, problems);
+      const seed = optional(body, 'seed', kind, problems);
       return samples === undefined || seed === undefined ? undefined : { kind, samples, seed };
     }
     case 'sobol': {
-      const samples = required(body, 'samples', kind, 1, MAX_SOBOL_INDEX, suggested, problems);
-      const skip = optional(body, 'skip', 0, 0, MAX_SOBOL_INDEX - 1, problems);
-      const seed = optional(body, 'seed', undefined, 0, MAX_SEED, problems);
+      const samples = required(body, 'samples', kind, suggested, problems);
+      const skip = optional(body, 'skip', kind, problems);
+      const seed = optional(body, 'seed', kind, problems);
       if (samples === undefined || skip === undefined) return undefined;
       if (!checkSobolLength(samples, skip, 'samples', problems)) return undefined;
       return seed === undefined ? { kind, samples, skip } : { kind, samples, skip, seed };
     }
     case 'saltelli': {
-      const base = required(body, 'base', kind, 1, MAX_SOBOL_INDEX, suggested, problems);
-      const skip = optional(body, 'skip', 0, 0, MAX_SOBOL_INDEX - 1, problems);
-      const seed = optional(body, 'seed', undefined, 0, MAX_SEED, problems);
+      const base = required(body, 'base', kind, suggested, problems);
+      const skip = optional(body, 'skip', kind, problems);
+      const seed = optional(body, 'seed', kind, problems);
       if (base === undefined || skip === undefined) return undefined;
       if (!checkSobolLength(base, skip, 'base', problems)) return undefined;
       return seed === undefined ? { kind, base, skip } : { kind, base, skip, seed };

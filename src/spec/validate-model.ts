@@ -3,8 +3,10 @@
  * `resolveParams` (ranges and relations live there, once); this file only adds the path
  * prefix and "did you mean" for unknown parameter names.
  */
+import { DEEP_ONSET_MODES, type DeepOnset } from '../physics/types.js';
 import { PARAM_NAMES, ParamError, resolveParams, type ParamName, type ParamOverrides } from '../physics/params.js';
 import { STEP_GPA_MAX, STEP_GPA_MIN, TOLERANCE_DEFAULT, TOLERANCE_MAX, TOLERANCE_MIN } from './limits.js';
+import { describeModelValidator, paramsSchema } from './json-schema.js';
 import { checkKeys, describeFound, isMapping, readChoice, readNumber, unknownKeyText, type ProblemList } from './problems.js';
 import type { ModelSpec } from './types.js';
 
@@ -24,10 +26,15 @@ export interface DecompressionModelSpec extends ModelSpec {
    * default 1e-4). Present exactly when step_gpa is not.
    */
   readonly tolerance?: number;
+  /**
+   * onsets deeper than the model range: 'drop' (default, not written when normalized, so older
+   * sweeps keep their JSON, hash and table columns) or 'cap' (computed from 8 GPa up, marked)
+   */
+  readonly deep_onset?: DeepOnset;
 }
 
 /** Keys of the `model` section. */
-export const MODEL_KEYS = ['thermal', 'water', 'params', 'step_gpa', 'tolerance'] as const;
+export const MODEL_KEYS = ['thermal', 'water', 'params', 'step_gpa', 'tolerance', 'deep_onset'] as const;
 /** Allowed `model.thermal` values. */
 export const THERMAL_MODES: readonly DecompressionModelSpec['thermal'][] = ['isentropic', 'conductive', 'auto'];
 /** Allowed `model.water` values. */
@@ -36,8 +43,37 @@ export const WATER_MODES: readonly DecompressionModelSpec['water'][] = ['batch',
 /**
  * Validate `model`; absent means thermal auto, water batch, no overrides, tolerance 1e-4. A sweep
  * gives step_gpa (fixed step) or tolerance (error control), not both.
+ * Carries the JSON Schema of its keys (built from the same constants) for `meltsweep schema`.
  */
-export function validateModel(raw: unknown, problems: ProblemList): DecompressionModelSpec | undefined {
+export const validateModel = describeModelValidator(validateDecompressionModel, {
+  thermal: {
+    enum: THERMAL_MODES,
+    default: 'auto',
+    description: 'temperature path: isentropic, conductive (needs an upwelling rate), or auto (conductive when an upwelling rate is given)',
+  },
+  water: { enum: WATER_MODES, default: 'batch', description: 'water partitioning between residue and melt: batch, or fractional (isentropic column only)' },
+  params: paramsSchema(),
+  step_gpa: {
+    type: 'number',
+    minimum: STEP_GPA_MIN,
+    maximum: STEP_GPA_MAX,
+    description: `a fixed pressure step of the isentropic column, GPa (${STEP_GPA_MIN}-${STEP_GPA_MAX}), instead of tolerance (not both); sweeps that give it keep the tables of the fixed-step integration`,
+  },
+  tolerance: {
+    type: 'number',
+    minimum: TOLERANCE_MIN,
+    maximum: TOLERANCE_MAX,
+    default: TOLERANCE_DEFAULT,
+    description: `relative tolerance of the error-controlled isentropic column (${TOLERANCE_MIN}-${TOLERANCE_MAX}); not together with step_gpa`,
+  },
+  deep_onset: {
+    enum: DEEP_ONSET_MODES,
+    default: 'drop',
+    description: 'onsets deeper than 8 GPa: drop (onset_beyond_range rows) or cap (computed from 8 GPa up, marked onset_capped)',
+  },
+});
+
+function validateDecompressionModel(raw: unknown, problems: ProblemList): DecompressionModelSpec | undefined {
   if (raw !== undefined && raw !== null && !isMapping(raw)) {
     problems.add('model', `${describeFound(raw)} is not a mapping; write { thermal: ..., water: ..., params: { ... } }`);
     return undefined;
@@ -56,9 +92,12 @@ export function validateModel(raw: unknown, problems: ProblemList): Decompressio
     );
   }
   const params = body.params === undefined || body.params === null ? {} : validateParams(body.params, problems);
-  if (problems.count !== before || thermal === undefined || water === undefined || params === undefined) return undefined;
-  if (step !== undefined) return { thermal, water, params, step_gpa: step };
-  return { thermal, water, params, tolerance: tolerance ?? TOLERANCE_DEFAULT };
+  const deep = body.deep_onset === undefined ? 'drop' : readChoice(body.deep_onset, DEEP_ONSET_MODES, 'model.deep_onset', problems, 'a deep-onset mode');
+  if (problems.count !== before || thermal === undefined || water === undefined || params === undefined || deep === undefined) {
+    return undefined;
+  }
+  const accuracy = step !== undefined ? { step_gpa: step } : { tolerance: tolerance ?? TOLERANCE_DEFAULT };
+  return deep === 'drop' ? { thermal, water, params, ...accuracy } : { thermal, water, params, ...accuracy, deep_onset: deep };
 }
 
 function readTolerance(raw: unknown, problems: ProblemList): number | undefined {
@@ -112,10 +151,11 @@ function validateParams(raw: unknown, problems: ProblemList): ParamOverrides | u
 
 /**
  * The canonical form of a valid decompression model section: thermal, water, params (in the
- * registry's order), then step_gpa or tolerance (whichever applies); no `process` key (the default
- * process is not written). A sweep with step_gpa keeps the JSON and hash it had before tolerances
- * existed (and its tables); one without step_gpa now runs with error control and records the
- * tolerance, so its hash differs from a run made before, and --resume of such a run refuses.
+ * registry's order), then step_gpa or tolerance (whichever applies), then deep_onset unless 'drop';
+ * no `process` key (the default process is not written). A sweep with step_gpa keeps the JSON and
+ * hash it had before tolerances existed (and its tables); one without step_gpa now runs with error
+ * control and records the tolerance, so its hash differs from a run made before, and --resume of
+ * such a run refuses.
  */
 export function normalizeDecompressionModel(model: DecompressionModelSpec): DecompressionModelSpec {
   const params: Partial<Record<ParamName, number>> = {};
@@ -123,6 +163,7 @@ export function normalizeDecompressionModel(model: DecompressionModelSpec): Deco
     const v = model.params[name];
     if (v !== undefined) params[name] = v;
   }
-  if (model.step_gpa !== undefined) return { thermal: model.thermal, water: model.water, params, step_gpa: model.step_gpa };
-  return { thermal: model.thermal, water: model.water, params, tolerance: model.tolerance ?? TOLERANCE_DEFAULT };
+  const accuracy = model.step_gpa !== undefined ? { step_gpa: model.step_gpa } : { tolerance: model.tolerance ?? TOLERANCE_DEFAULT };
+  const base = { thermal: model.thermal, water: model.water, params, ...accuracy };
+  return model.deep_onset === undefined || model.deep_onset === 'drop' ? base : { ...base, deep_onset: model.deep_onset };
 }

@@ -21,13 +21,29 @@ function json(...args: string[]): Record<string, unknown> {
 describe('meltsweep column', () => {
   it('--json prints one object whose keys are status, reason and the registry names, in order', () => {
     const out = json('--tp', '1350', '--water', '100', '--lid', '10');
-    expect(Object.keys(out)).toEqual(['status', 'reason', ...RESULT_NUMERIC_NAMES]);
+    expect(Object.keys(out)).toEqual(['status', 'reason', ...RESULT_NUMERIC_NAMES, 'inputs', 'model']);
     expect(out.status).toBe('ok');
     expect(out.reason).toBeNull();
     expect(typeof out.crust_km).toBe('number');
     expect(out.melt_flux_kg_m2_yr).toBeNull(); // no upwelling rate
     expect(out.surface_heat_flow_mw_m2).toBeNull(); // isentropic
     expect(out.top_depth_km as number).toBeCloseTo(10, 9);
+  });
+
+  it('--json echoes the inputs (null where not given) and the model options it ran with', () => {
+    const out = json('--tp', '1350', '--water', '100', '--lid', '10', '--mode', 'fractional', '--step', '0.02');
+    expect(out.inputs).toEqual({ tp_c: 1350, water_ppm: 100, lid_km: 10, upwelling_mm_yr: null });
+    expect(out.model).toEqual({
+      process: 'decompression',
+      thermal: 'auto',
+      water: 'fractional',
+      params: {},
+      step_gpa: 0.02,
+      resolved: 'model: isentropic (auto: no upwelling rate), water fractional',
+    });
+    const conductive = json('--tp', '1350', '--upwelling', '5');
+    expect(conductive.inputs).toEqual({ tp_c: 1350, water_ppm: 0, lid_km: 0, upwelling_mm_yr: 5 });
+    expect((conductive.model as Record<string, unknown>).resolved).toBe('model: conductive (auto: an upwelling rate is given), water batch');
   });
 
   it('--upwelling with --thermal isentropic gives the melt flux rho_s w F_max', () => {

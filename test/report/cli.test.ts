@@ -83,7 +83,7 @@ describe('meltsweep report', () => {
   it('exits 2 for a bad option', () => {
     const bad = runCliSync(['report', results, '-o', path.join(dir, 'b.html'), '--x', 'tp', '--at', 'lid_km=10']);
     expect(bad.status).toBe(2);
-    expect(bad.stderr).toContain('--x: "tp" is not an input; swept inputs: tp_c, water_ppm, lid_km');
+    expect(bad.stderr).toContain('--x: "tp" is not an input; did you mean tp_c? swept inputs: tp_c, water_ppm, lid_km');
     expect(fs.existsSync(path.join(dir, 'b.html'))).toBe(false);
   });
 

@@ -81,7 +81,8 @@ describe('HTML report of a grid sweep', () => {
     expect(await problems({ x: 'tp_c', y: 'tp_c' })).toMatch(/^--x and --y: both are tp_c/);
     expect(await problems({ at: { lid_km: 50 } })).toBe('--at: lid_km=50 km is outside the swept range 0-20 km');
     expect(await problems({ at: { tp_c: 1300 } })).toMatch(/^--at: tp_c is on the --x axis/);
-    expect(await problems({ outputs: ['crust'] })).toMatch(/^--outputs: "crust" is not an output column; allowed: onset_p_gpa, /);
+    expect(await problems({ outputs: ['crust'] })).toMatch(/^--outputs: "crust" is not an output column; did you mean crust_km\? allowed: onset_p_gpa, /);
+    expect(await problems({ at: { water: 100 } })).toBe('--at: "water" is not an input; did you mean water_ppm? swept inputs: tp_c, water_ppm, lid_km');
     expect(await problems({ outputs: ['surface_heat_flow_mw_m2'] })).toMatch(/^--outputs: surface_heat_flow_mw_m2 holds no values in /);
     expect(() => parseAtOption('lid_km:10')).toThrow('--at: "lid_km:10" is not allowed; give name=value pairs');
     expect(parseAtOption('lid_km=10, water_ppm=5')).toEqual({ lid_km: 10, water_ppm: 5 });

@@ -114,8 +114,14 @@ describe('runSweep', () => {
     expect(first.rows).toBeLessThan(72);
     expect(fs.existsSync(out)).toBe(false);
     await expect(runSweep({ spec, outPath: out, workers: 1 })).rejects.toThrow(/use --resume/);
-    const second = await runSweep({ spec, outPath: out, workers: 2, resume: true });
+    const replayed: number[] = [];
+    const second = await runSweep({
+      spec, outPath: out, workers: 2, resume: true,
+      progress: { replayed: (rows) => replayed.push(rows), update: () => undefined, finish: () => undefined },
+    });
     expect(second.computedRows).toBe(72 - first.rows);
+    // the progress is told once, before computing, how many rows the resume took over
+    expect(replayed).toEqual([first.rows]);
     const reference = path.join(dir, 'w1.arrow');
     expect(tableColumns(readTable(out))).toEqual(tableColumns(readTable(reference)));
   });

@@ -9,7 +9,7 @@ import fs from 'node:fs';
 import { InputError, RunError, EXIT_RUN_FAILED } from '../../errors.js';
 import { REASON_FIELD, STATUS_FIELD, type FieldInfo } from '../../physics/fields.js';
 import { checkRangeValue, formatRange, STEP_GPA_RANGE, type InputRange } from '../../physics/ranges.js';
-import { allProcesses, DEFAULT_PROCESS, processNamed } from '../../process/registry.js';
+import { allProcesses, DEFAULT_PROCESS, everyResultOf, processNamed } from '../../process/registry.js';
 import type { AnyProcess, InputDef, ProcessResult } from '../../process/types.js';
 import { TOLERANCE_DEFAULT, TOLERANCE_MAX, TOLERANCE_MIN } from '../../spec/limits.js';
 import { ProblemList } from '../../spec/problems.js';
@@ -21,6 +21,7 @@ const MODEL_FLAGS = [
   { flag: 'thermal', key: 'thermal' },
   { flag: 'step', key: 'step_gpa', numeric: true },
   { flag: 'tolerance', key: 'tolerance', numeric: true },
+  { flag: 'deep-onset', key: 'deep_onset' },
 ] as const;
 
 /** What commander hands the action: input flags and model flags as text, plus the fixed options. */
@@ -131,11 +132,39 @@ function flagOfModelProblem(message: string): string {
   return message;
 }
 
-/** The result as one flat object: status, reason, then every numeric result field of the process. */
+/** The result fields of a row: the process's results, then the optional ones the row carries. */
+function rowFields(process: AnyProcess, r: ProcessResult): readonly FieldInfo[] {
+  return everyResultOf(process).filter((f, i) => i < process.results.length || r.values[f.name] !== undefined);
+}
+
+/** The result as one flat object: status, reason, then every numeric result field of the row. */
 export function resultRecord(process: AnyProcess, r: ProcessResult): Record<string, string | number | null> {
   const out: Record<string, string | number | null> = { [STATUS_FIELD.name]: r.status, [REASON_FIELD.name]: r.reason };
-  for (const f of process.results) out[f.name] = r.values[f.name] ?? null;
+  for (const f of rowFields(process, r)) out[f.name] = r.values[f.name] ?? null;
   return out;
+}
+
+/**
+ * What `column --json` prints: the result record, then what it ran with: `inputs` (every input of
+ * the process by name, null for "not given") and `model` (the process, its validated model options
+ * and, where the process describes it, the line naming what was resolved, e.g. the thermal model
+ * chosen by `auto`).
+ */
+export function columnJson(
+  process: AnyProcess,
+  r: ProcessResult,
+  inputs: Readonly<Record<string, number>>,
+  model: ModelSpec,
+  runtime: unknown,
+): Record<string, unknown> {
+  const given: Record<string, number | null> = {};
+  for (const i of process.inputsFor(model)) given[i.name] = Number.isFinite(inputs[i.name]) ? inputs[i.name] : null;
+  const resolved = process.describeColumn?.(inputs, runtime);
+  return {
+    ...resultRecord(process, r),
+    inputs: given,
+    model: { process: process.name, ...model, ...(resolved === undefined ? {} : { resolved }) },
+  };
 }
 
 function formatNumber(v: number | null): string {
@@ -149,7 +178,7 @@ function formatNumber(v: number | null): string {
 export function resultTable(process: AnyProcess, r: ProcessResult): string {
   const rows: [string, string, string][] = [[STATUS_FIELD.name, r.status, '']];
   if (r.reason !== null) rows.push([REASON_FIELD.name, r.reason, '']);
-  for (const f of process.results) {
+  for (const f of rowFields(process, r)) {
     const v = r.values[f.name] ?? null;
     rows.push([f.name, formatNumber(v), v === null ? '' : f.unit]);
   }
@@ -188,7 +217,8 @@ export function registerColumn(program: Command): void {
     .option('--thermal <model>', 'thermal model: isentropic, conductive, auto (default auto: conductive with --upwelling, else isentropic) [process decompression]')
     .option('--step <GPa>', `isentropic column: a fixed pressure step (${formatRange(STEP_GPA_RANGE)}) instead of error control [process decompression]`)
     .option('--tolerance <rel>', `isentropic column: relative tolerance of the error-controlled steps (${TOLERANCE_MIN}-${TOLERANCE_MAX}, default ${TOLERANCE_DEFAULT}) [process decompression]`)
-    .option('--json', 'print one JSON object: status, reason and every numeric result field (null where not applicable)')
+    .option('--deep-onset <mode>', 'onset deeper than 8 GPa: drop (status onset_beyond_range, default) or cap (computed from 8 GPa up, marked onset_capped) [process decompression]')
+    .option('--json', 'print one JSON object: status, reason, every numeric result field (null where not applicable), then the inputs and model options it ran with')
     .option('--profile <file.csv>', 'write the profile along the melting column to a CSV file')
     .action((o: ColumnOptions) => {
       const { process: proc, inputs, model } = columnInputs(o);
@@ -202,7 +232,7 @@ export function registerColumn(program: Command): void {
         }
       }
       if (o.json) {
-        process.stdout.write(`${JSON.stringify(resultRecord(proc, result))}\n`);
+        process.stdout.write(`${JSON.stringify(columnJson(proc, result, inputs, model, runtime))}\n`);
       } else {
         const line = proc.describeColumn?.(inputs, runtime) ?? `process: ${proc.name}`;
         process.stdout.write(`${line}\n${resultTable(proc, result)}\n`);

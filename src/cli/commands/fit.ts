@@ -9,6 +9,7 @@ import path from 'node:path';
 import { InputError } from '../../errors.js';
 import { fitJson, formatFitSummary, observationsFromData, parseDiscrepancyOption, parseObserveOption, type Observation } from '../../fit/index.js';
 import { fitPathFor, fitResultsFile } from '../../run/fit-file.js';
+import { CAPPED_HELP, parseCappedOption, type CappedChoice } from '../../run/capped-rows.js';
 import { checkFitOutput, writeFitTable, writeRefinedSweep } from '../../run/fit-output.js';
 import { parseSweepData } from '../../spec/parse.js';
 
@@ -21,6 +22,7 @@ interface FitCliOptions {
   json?: boolean;
   refine?: string;
   force?: boolean;
+  capped?: CappedChoice;
 }
 
 const collect = (v: string, list: string[]): string[] => [...list, v];
@@ -61,6 +63,7 @@ export function registerFit(program: Command): void {
     .option('--predict <list>', 'comma-separated outputs whose posterior predictive to summarise, e.g. f_max,onset_depth_km')
     .option('-o, --output <file.html>', 'the HTML page to write (default: RESULTS.fit.html)')
     .option('--json', 'print one JSON object instead of the text summary (warnings go to stderr)')
+    .option('--capped <choice>', CAPPED_HELP, parseCappedOption)
     .option('--refine <next.yaml>', 'write a sweep file covering the posterior (0.5-99.5 % with a margin), same design, for meltsweep run')
     .option('--force', 'replace existing output files')
     .action(async (results: string, o: FitCliOptions) => {
@@ -76,7 +79,7 @@ export function registerFit(program: Command): void {
       checkFitOutput('-o', pagePath, o.force === true);
       if (o.refine !== undefined) checkFitOutput('--refine', o.refine, o.force === true);
 
-      const r = await fitResultsFile(results, { observations, discrepancies, predict });
+      const r = await fitResultsFile(results, { observations, discrepancies, predict, capped: o.capped });
       await writeFitTable(r, tablePath);
       // the plotting libraries load only when a page is written (they add ~0.3 s to start-up)
       const { writeFitPage } = await import('../../report/fit-page.js');

@@ -10,6 +10,7 @@ import { registerPlot } from './plot.js';
 import { registerReport } from './report.js';
 import { registerInspect } from './inspect.js';
 import { registerFit } from './fit.js';
+import { registerSchema } from './schema.js';
 
 /** Every command, in the order `meltsweep --help` lists them. */
 export function registerCommands(program: Command): void {
@@ -24,4 +25,5 @@ export function registerCommands(program: Command): void {
   registerPlot(program);
   registerReport(program);
   registerInspect(program);
+  registerSchema(program);
 }

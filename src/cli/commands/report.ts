@@ -5,6 +5,7 @@
 import type { Command } from 'commander';
 import { InputError } from '../../errors.js';
 import { parseAtOption } from '../../report/report-options.js';
+import { CAPPED_HELP, parseCappedOption, type CappedChoice } from '../../run/capped-rows.js';
 import { parseNumberOption } from '../options.js';
 
 interface ReportCliOptions {
@@ -16,6 +17,7 @@ interface ReportCliOptions {
   resamples?: number;
   seed?: number;
   title?: string;
+  capped?: CappedChoice;
 }
 
 /** `r7.arrow` -> `r7.report.html`. */
@@ -37,6 +39,7 @@ export function registerReport(program: Command): void {
     .option('--resamples <n>', 'bootstrap resamples for saltelli designs (default 500)', (v: string) => parseNumberOption('--resamples', v, 10, 100000, 'resamples'))
     .option('--seed <n>', 'bootstrap seed (default 1)', (v: string) => parseNumberOption('--seed', v, 0, 2 ** 31, ''))
     .option('--title <text>', 'page title (default: "meltsweep report: <sweep name>")')
+    .option('--capped <choice>', CAPPED_HELP, parseCappedOption)
     .action(async (results: string, o: ReportCliOptions) => {
       const out = o.output ?? reportPathFor(results);
       if (!/\.html?$/i.test(out)) throw new InputError(`-o: ${JSON.stringify(out)} is not allowed; the report is an HTML file: give a name ending in .html`);
@@ -50,6 +53,7 @@ export function registerReport(program: Command): void {
         resamples: o.resamples,
         seed: o.seed,
         title: o.title,
+        capped: o.capped,
       });
       process.stdout.write(`report: ${out} (${report.plots.length} pictures)\n`);
     });

@@ -7,7 +7,7 @@ import { parseShardArg } from '../../plan/index.js';
 import { runSweep, type RunSummary } from '../../run/run-sweep.js';
 import { createProgress } from '../../run/progress.js';
 import { planSweep, shardRange } from '../../plan/index.js';
-import { parseNumberOption, parseWorkers } from '../options.js';
+import { parseNumberOption, parseWorkers, warnOutputExtension } from '../options.js';
 import { formatRunSummary } from '../run-report.js';
 import { summaryAfterRun } from './sensitivity.js';
 
@@ -119,6 +119,7 @@ export function registerRun(program: Command): void {
     )
     .action(async (sweep: string, o: RunCommandOptions) => {
       if (o.resume && o.force) throw new InputError('--resume and --force: choose one (resume keeps finished rows, force starts over)');
+      warnOutputExtension(o.output, o.format);
       const summary = await executeRun(sweep, o);
       const extra = [o.shard ? ` --shard ${o.shard}` : '', o.format ? ` --format ${o.format}` : '', o.profiles ? ` --profiles ${formatProfileGrid(o.profiles)}` : ''].join('');
       const again = `meltsweep run ${sweep} -o ${o.output}${extra} --resume`;

@@ -3,12 +3,13 @@ import { formatSensitivitySummary } from '../../analyze/index.js';
 import { readResultsMeta } from '../../io/arrow-schema.js';
 import { readTableSchema } from '../../io/table-reader.js';
 import { analyzeResultsFile, AUTO_SUMMARY_MAX_ROWS, sensitivityPathFor, writeSensitivityTable } from '../../run/sensitivity-file.js';
+import { CAPPED_HELP, parseCappedOption, type CappedChoice } from '../../run/capped-rows.js';
 import { parseNumberOption } from '../options.js';
 
 /** Analyze a results file, write its sensitivity table, and return the printed summary. */
 export async function summarizeResults(
   file: string,
-  o: { outputs?: string[]; resamples?: number; seed?: number; output?: string } = {},
+  o: { outputs?: string[]; resamples?: number; seed?: number; output?: string; capped?: CappedChoice } = {},
 ): Promise<string> {
   const report = await analyzeResultsFile(file, o);
   const meta = readResultsMeta(await readTableSchema(file));
@@ -38,7 +39,8 @@ export function registerSensitivity(program: Command): void {
     .option('--resamples <n>', 'bootstrap resamples for saltelli designs (default 500)', (v: string) => parseNumberOption('--resamples', v, 10, 100000, 'resamples'))
     .option('--seed <n>', 'bootstrap seed (default 1)', (v: string) => parseNumberOption('--seed', v, 0, 2 ** 31, ''))
     .option('-o, --output <file>', 'sensitivity table path (default: RESULTS.sensitivity.arrow)')
-    .action(async (results: string, o: { outputs?: string[]; resamples?: number; seed?: number; output?: string }) => {
+    .option('--capped <choice>', CAPPED_HELP, parseCappedOption)
+    .action(async (results: string, o: { outputs?: string[]; resamples?: number; seed?: number; output?: string; capped?: CappedChoice }) => {
       process.stdout.write(`${await summarizeResults(results, o)}\n`);
     });
 }

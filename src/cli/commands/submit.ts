@@ -4,7 +4,7 @@ import { submitSweep, type SubmitResult } from '../../cluster/submit.js';
 import { InputError } from '../../errors.js';
 import { OUTPUT_FORMATS, parseOutputFormat, type OutputFormat } from '../../io/output-format.js';
 import { MAX_SHARDS } from '../../plan/shards.js';
-import { parseWorkers } from '../options.js';
+import { parseWorkers, warnOutputExtension } from '../options.js';
 
 interface SubmitCommandOptions {
   readonly output: string;
@@ -74,6 +74,7 @@ export function registerSubmit(program: Command): void {
     .option('--setup <command>', 'shell command the jobs run first, e.g. "module load nodejs" (repeatable)', collect, [])
     .option('--dry-run', 'print the job scripts and sbatch commands; write and submit nothing')
     .action(async (sweep: string, o: SubmitCommandOptions) => {
+      warnOutputExtension(o.output, o.format);
       const r = await submitSweep({
         sweepPath: sweep,
         output: o.output,
