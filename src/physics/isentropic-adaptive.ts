@@ -144,7 +144,7 @@ class AdaptiveIntegrator {
     this.s = s;
     this.fHi = s.fractional ? 1 - 1e-12 : 1;
     this.D = p.D_H2O;
-    this.tolDf = 1e-5 * tol * F_FLOOR;
+    this.tolDf = 1e-3 * tol * F_FLOOR;
     // start: F = 0 on the solid adiabat at the onset, or a state already melting (capped onset)
     const fStart = start?.f ?? 0;
     this.fromOnset = start === undefined;
