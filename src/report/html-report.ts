@@ -15,7 +15,7 @@ import { DEFAULT_PROCESS } from '../process/registry.js';
 import type { DecompressionModelSpec } from '../spec/validate-model.js';
 import { analyzeResultsFile } from '../run/sensitivity-file.js';
 import { cappedNote } from '../run/capped-rows.js';
-import { columnDiagramSpec } from './column-diagram.js';
+import { columnDiagramLayout } from './column-diagram.js';
 import { columnDiagramData, scenarioLabels, type DiagramScenario } from './column-diagram-data.js';
 import { htmlFigure, htmlPage, escapeHtml } from './html.js';
 import { labelOf, valueWithUnit } from './labels.js';
@@ -27,7 +27,10 @@ import { resolveReportOptions, type ReportOptions } from './report-options.js';
 import { metadataSection } from './report-metadata.js';
 import { readResultsColumns, readResultsInfo, type ResultsColumns } from './results-columns.js';
 import { mainEffectsSpec, sensitivityBarsSpec } from './sensitivity-bars.js';
-import { binnedMap, gridSliceMap, mapSubtitle, sweepMapSpec } from './sweep-map.js';
+import { binnedMap, gridSliceMap, mapSubtitle } from './sweep-map.js';
+import { mapFigureLayout } from './map-figure.js';
+import { renderFigure, type FigureLayout } from './figure.js';
+import type { ReportFigure } from './report-figures.js';
 
 /** Kinds of picture in a report, as in each figure's data-plot attribute. */
 export type ReportPlotKind = 'map' | 'main-effects' | 'indices' | 'column';
@@ -41,6 +44,8 @@ export interface HtmlReport {
   readonly notes: readonly string[];
   /** warnings of the plotting libraries (none expected) */
   readonly warnings: readonly string[];
+  /** the pictures with their SVG and layout, for `report --figures` */
+  readonly figures: readonly ReportFigure[];
 }
 
 /** Representative scenarios: the ok rows with the smallest, median and largest value of `output`. */
@@ -80,11 +85,15 @@ export async function buildHtmlReport(file: string, options: ReportOptions = {})
   const analysisNotes: string[] = [];
   const warnings: string[] = [];
   const plots: { kind: ReportPlotKind; output: string | null }[] = [];
-  let figureCount = 0;
-  const figure = async (kind: ReportPlotKind, output: string | null, plot: PlotSpec, caption: string): Promise<string> => {
-    const r = await renderSvg(plot, { idPrefix: `p${++figureCount}-` });
+  const figures: ReportFigure[] = [];
+  // a figure is a fixed spec, or a layout that `report --figures` can draw again at another width
+  const figure = async (kind: ReportPlotKind, output: string | null, plot: PlotSpec | FigureLayout, caption: string): Promise<string> => {
+    const idPrefix = `p${figures.length + 1}-`;
+    const layout = 'build' in plot ? (plot as FigureLayout) : null;
+    const r = layout !== null ? await renderFigure(layout, undefined, idPrefix) : await renderSvg(plot as PlotSpec, { idPrefix });
     warnings.push(...r.warnings);
     plots.push({ kind, output });
+    figures.push({ kind, output, svg: r.svg, layout, caption });
     return htmlFigure(kind, r.svg, caption, output === null ? {} : { output });
   };
 
@@ -93,7 +102,9 @@ export async function buildHtmlReport(file: string, options: ReportOptions = {})
   if (opts.x !== null && opts.y !== null) {
     for (const output of opts.outputs) {
       const map = spec.design.kind === 'grid' ? gridSliceMap(table, spec, output, opts.x, opts.y, opts.at) : binnedMap(table, spec, output, opts.x, opts.y);
-      maps.push(await figure('map', output, sweepMapSpec(map), `${output} over ${opts.x} and ${opts.y}: ${mapSubtitle(map)}. Grey cells: no value.`));
+      const levels = opts.contours[output];
+      const contourText = levels === undefined ? '' : ` Contour lines at ${levels.map((v) => valueWithUnit(output, v)).join(', ')}.`;
+      maps.push(await figure('map', output, mapFigureLayout(map, { contours: levels }), `${output} over ${opts.x} and ${opts.y}: ${mapSubtitle(map)}. Grey cells with a stroke: no value.${contourText}`));
     }
   }
 
@@ -137,8 +148,9 @@ export async function buildHtmlReport(file: string, options: ReportOptions = {})
         label: `${WHICH[p.which]} ${labelOf(repOutput)} ${valueWithUnit(repOutput, table.outputs[repOutput][p.row])}: ${auto[k]}`,
       }));
       const data = columnDiagramData(items, sweepModel(spec.model as DecompressionModelSpec, meta.params));
-      const plot = columnDiagramSpec(data, { title: `Representative columns: smallest, median and largest ${labelOf(repOutput)}`, subtitle: `among the ok rows of ${spec.name}` });
-      columns.push(await figure('column', repOutput, plot, `Temperature and melt fraction against depth for the ok rows with the smallest, median and largest ${repOutput}. The key below the diagram explains the marks.`));
+      const plot = columnDiagramLayout(data, { title: `Representative columns: smallest, median and largest ${labelOf(repOutput)}`, subtitle: `among the ok rows of ${spec.name}` });
+      const wet = data.wetWaters.length > 0 ? ' Near the surface each wet solidus bends back to the dry one: the water the melt can hold falls to zero as pressure goes to zero, so the last kilometres melt as if dry. This is the model, not a glitch.' : '';
+      columns.push(await figure('column', repOutput, plot, `Temperature and melt fraction against depth for the ok rows with the smallest, median and largest ${repOutput}. The key below the diagram explains the marks.${wet}`));
     } else {
       notes.push(`no ok row has a value of ${repOutput}: no representative columns`);
     }
@@ -155,7 +167,7 @@ export async function buildHtmlReport(file: string, options: ReportOptions = {})
     notes.length + analysisNotes.length > 0 ? section('Notes', notesHtml(notes, analysisNotes)) : '',
     `<footer>Model estimates from a one-dimensional parameterised melting model, not observations. Not a tool for volcanic hazard assessment.</footer>`,
   ].filter(Boolean);
-  return { html: htmlPage(title, body.join('\n')), plots, notes: [...notes, ...analysisNotes], warnings };
+  return { html: htmlPage(title, body.join('\n')), plots, notes: [...notes, ...analysisNotes], warnings, figures };
 }
 
 function notesHtml(notes: readonly string[], analysisNotes: readonly string[]): string {

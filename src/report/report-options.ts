@@ -25,6 +25,8 @@ export interface ReportOptions {
   readonly seed?: number;
   /** page title (default: "meltsweep report: <sweep name>") */
   readonly title?: string;
+  /** contour values per output drawn on its map (--contour crust_km=7) */
+  readonly contours?: Readonly<Record<string, readonly number[]>>;
   /** rows with a capped onset (deep_onset: cap): drawn and analysed (default) or left out */
   readonly capped?: CappedChoice;
 }
@@ -41,6 +43,8 @@ export interface ResolvedReportOptions {
   readonly y: string | null;
   /** slice values of the other swept inputs (grid designs) */
   readonly at: Partial<Record<string, number>>;
+  /** contour values by output (only outputs that are drawn) */
+  readonly contours: Readonly<Record<string, readonly number[]>>;
   /** what the defaults or the design changed, in plain words */
   readonly notes: readonly string[];
 }
@@ -58,6 +62,40 @@ export function parseAtOption(raw: string): Record<string, number> {
       throw new InputError(`--at: ${JSON.stringify(part)} is not allowed; give name=value pairs of swept inputs, e.g. lid_km=10,upwelling_mm_yr=20`);
     }
     out[m[1]] = value;
+  }
+  return out;
+}
+
+/**
+ * Parse a list of contour values ("7,9.5"). @throws InputError naming the option and the bad part
+ */
+export function parseContourValues(option: string, raw: string): number[] {
+  const values: number[] = [];
+  for (const part of raw.split(',').map((s) => s.trim())) {
+    const v = part === '' ? Number.NaN : Number(part);
+    if (!Number.isFinite(v)) throw new InputError(`${option}: ${JSON.stringify(part)} is not a number; give the output values to draw contours of, separated by commas, e.g. 7,9`);
+    if (!values.includes(v)) values.push(v);
+  }
+  return values;
+}
+
+/**
+ * Parse report --contour values (the option may be repeated): "crust_km=7", "crust_km=7,9",
+ * "crust_km=7,f_max=0.1". A bare number continues the list of the name before it.
+ * @throws InputError naming the malformed part
+ */
+export function parseContourOption(raws: readonly string[]): Record<string, number[]> {
+  const out: Record<string, number[]> = {};
+  for (const raw of raws) {
+    let name: string | null = null;
+    for (const part of raw.split(',').map((s) => s.trim()).filter(Boolean)) {
+      const m = /^([A-Za-z_][A-Za-z0-9_]*)\s*=\s*(.*)$/.exec(part);
+      if (m !== null) name = m[1];
+      if (name === null) throw new InputError(`--contour: ${JSON.stringify(part)} is not allowed; give output=value pairs, e.g. crust_km=7 or crust_km=7,9`);
+      const [v] = parseContourValues('--contour', m === null ? part : m[2]);
+      const list = (out[name] ??= []);
+      if (!list.includes(v)) list.push(v);
+    }
   }
   return out;
 }
@@ -138,9 +176,15 @@ export function resolveReportOptions(o: ReportOptions, spec: SweepSpec, outputsW
     }
     at[input] = value;
   }
+  const contours: Record<string, readonly number[]> = {};
+  for (const [name, values] of Object.entries(o.contours ?? {})) {
+    if (!RESULT_NUMERIC_NAMES.includes(name)) problems.push(`--contour: ${JSON.stringify(name)} is not an output column; ${didYouMean(name, RESULT_NUMERIC_NAMES)}allowed: ${RESULT_NUMERIC_NAMES.join(', ')}`);
+    else if (!outputs.includes(name)) problems.push(`--contour: ${name} is not among the outputs drawn (${outputs.join(', ') || 'none'}); add it with --outputs`);
+    else if (x !== null && y !== null) contours[name] = values;
+  }
   if (problems.length > 0) throw new InputError(problems);
   if (spec.design.kind !== 'grid' && Object.keys(at).length > 0) {
     notes.push(`--at applies to grid designs; in this ${spec.design.kind} design each map cell averages over the other inputs`);
   }
-  return { outputs, x, y, at, notes };
+  return { outputs, x, y, at, contours, notes };
 }

@@ -7,13 +7,14 @@
  *   cell the mean of the finite values in it (every other input varies inside a cell).
  */
 import type { AxisSpec, SweepSpec } from '../spec/types.js';
-import { axisTitleOf, fixedValueLabel, shortDescription, fieldInfo } from './labels.js';
+import { fixedValueLabel } from './labels.js';
 import type { ResultsColumns } from './results-columns.js';
-import type { PlotSpec } from './render.js';
-import { HEATMAP_SCHEME, NO_VALUE_FILL, PAPER } from './theme.js';
 
-/** One cell of a map: its centre, its edges and its value (null: no finite value). */
+/** One cell of a map: its column and row, its centre, its edges and its value (null: no finite value). */
 export interface MapCell {
+  /** column (0 = smallest x) and row (0 = smallest y) */
+  readonly i: number;
+  readonly j: number;
   readonly x: number;
   readonly y: number;
   readonly x0: number;
@@ -36,6 +37,13 @@ export interface SweepMapData {
   readonly mode: 'slice' | 'binned';
   /** where the other swept inputs sit (slice mode) */
   readonly at: readonly { readonly name: string; readonly value: number }[];
+  /** columns and rows of cells */
+  readonly nx: number;
+  readonly ny: number;
+  /** the x and y of the cell centres (slice: the grid values, ascending; binned: bin centres) */
+  readonly xValues: readonly number[];
+  readonly yValues: readonly number[];
+  /** row-major: cells[j * nx + i] */
   readonly cells: readonly MapCell[];
 }
 
@@ -116,10 +124,10 @@ export function gridSliceMap(table: ResultsColumns, spec: SweepSpec, output: str
   ys.forEach((yv, j) =>
     xs.forEach((xv, i) => {
       const k = j * xs.length + i;
-      cells.push({ x: xv, y: yv, x0: xe[i], x1: xe[i + 1], y0: ye[j], y1: ye[j + 1], value: cnt[k] > 0 ? sum[k] / cnt[k] : null, n: cnt[k] });
+      cells.push({ i, j, x: xv, y: yv, x0: xe[i], x1: xe[i + 1], y0: ye[j], y1: ye[j + 1], value: cnt[k] > 0 ? sum[k] / cnt[k] : null, n: cnt[k] });
     }),
   );
-  return { output, x, y, xLog: ax.scale === 'log', yLog: ay.scale === 'log', mode: 'slice', at: others, cells };
+  return { output, x, y, xLog: ax.scale === 'log', yLog: ay.scale === 'log', mode: 'slice', at: others, nx: xs.length, ny: ys.length, xValues: xs, yValues: ys, cells };
 }
 
 /** Bins per axis for n samples: about four samples per cell, 3 to 24 bins. */
@@ -171,6 +179,8 @@ export function binnedMap(table: ResultsColumns, spec: SweepSpec, output: string
     for (let i = 0; i < bins; i++) {
       const k = j * bins + i;
       cells.push({
+        i,
+        j,
         x: mid(xe, i, ax.scale === 'log'),
         y: mid(ye, j, ay.scale === 'log'),
         x0: xe[i],
@@ -182,7 +192,10 @@ export function binnedMap(table: ResultsColumns, spec: SweepSpec, output: string
       });
     }
   }
-  return { output, x, y, xLog: ax.scale === 'log' && ax.min > 0, yLog: ay.scale === 'log' && ay.min > 0, mode: 'binned', at: [], cells };
+  const xLog = ax.scale === 'log' && ax.min > 0;
+  const yLog = ay.scale === 'log' && ay.min > 0;
+  const centres = (e: readonly number[], log: boolean) => Array.from({ length: bins }, (_, i) => mid(e, i, log));
+  return { output, x, y, xLog, yLog, mode: 'binned', at: [], nx: bins, ny: bins, xValues: centres(xe, xLog), yValues: centres(ye, yLog), cells };
 }
 
 /** A subtitle saying what the map shows. */
@@ -190,97 +203,4 @@ export function mapSubtitle(map: SweepMapData): string {
   if (map.mode === 'binned' && map.at.length > 0) return `slice at ${map.at.map((a) => fixedValueLabel(a.name, a.value)).join(', ')}; mean of the grid points in each cell`;
   if (map.mode === 'binned') return `mean of the samples in each cell; the other inputs vary within a cell`;
   return map.at.length === 0 ? 'every grid point' : `slice at ${map.at.map((a) => fixedValueLabel(a.name, a.value)).join(', ')}`;
-}
-
-/** Most cells that get their value written in them. */
-const MAX_LABELLED_CELLS = 64;
-
-/** Approximate width (px) of one character of the 9.5 px cell labels. */
-const LABEL_CHAR_PX = 5.8;
-
-/**
- * Cells whose value, written with 3 significant digits, fits inside the cell as drawn (narrow
- * cells of an uneven grid stay unlabelled rather than overprinting their neighbours).
- */
-function labelsThatFit(map: SweepMapData, cells: readonly MapCell[], width: number, height: number): Array<MapCell & { label: string }> {
-  const t = (v: number, log: boolean): number => (log ? Math.log10(v) : v);
-  const span = (lo: number, hi: number): number => (hi > lo ? hi - lo : 1);
-  const xs = map.cells.flatMap((c) => [t(c.x0, map.xLog), t(c.x1, map.xLog)]);
-  const ys = map.cells.flatMap((c) => [t(c.y0, map.yLog), t(c.y1, map.yLog)]);
-  const pxX = width / span(Math.min(...xs), Math.max(...xs));
-  const pxY = height / span(Math.min(...ys), Math.max(...ys));
-  const out: Array<MapCell & { label: string }> = [];
-  for (const c of cells) {
-    const label = String(Number((c.value as number).toPrecision(3)));
-    const cellW = Math.abs(t(c.x1, map.xLog) - t(c.x0, map.xLog)) * pxX;
-    const cellH = Math.abs(t(c.y1, map.yLog) - t(c.y0, map.yLog)) * pxY;
-    if (cellW >= label.length * LABEL_CHAR_PX + 4 && cellH >= 12) out.push({ ...c, label });
-  }
-  return out;
-}
-
-/** The Vega-Lite spec of a heat map (viridis, grey for cells without a value). */
-export function sweepMapSpec(map: SweepMapData, options: { readonly width?: number; readonly height?: number } = {}): PlotSpec {
-  const width = options.width ?? 300;
-  const height = options.height ?? 240;
-  const withValue = map.cells.filter((c) => c.value !== null);
-  const without = map.cells.filter((c) => c.value === null);
-  const info = fieldInfo(map.output);
-  const values = withValue.map((c) => c.value as number);
-  const lo = values.length > 0 ? Math.min(...values) : 0;
-  const hi = values.length > 0 ? Math.max(...values) : 1;
-  const midpoint = (lo + hi) / 2;
-  const xEnc = { field: 'x0', type: 'quantitative' as const, title: axisTitleOf(map.x), scale: { type: map.xLog ? ('log' as const) : ('linear' as const), zero: false, nice: false }, axis: { grid: false, tickCount: 6 } };
-  const yEnc = { field: 'y0', type: 'quantitative' as const, title: axisTitleOf(map.y), scale: { type: map.yLog ? ('log' as const) : ('linear' as const), zero: false, nice: false }, axis: { grid: false, tickCount: 6 } };
-  const layers: Record<string, unknown>[] = [];
-  // empty layers are left out: an empty data set gives the scales an infinite extent
-  if (without.length > 0) {
-    layers.push({
-      name: 'no_value_cells',
-      data: { values: without },
-      mark: { type: 'rect', fill: NO_VALUE_FILL, stroke: PAPER, strokeWidth: 0.6 },
-      encoding: { x: xEnc, x2: { field: 'x1' }, y: yEnc, y2: { field: 'y1' } },
-    });
-  }
-  if (withValue.length > 0) {
-    layers.push({
-      name: 'map_cells',
-      data: { values: withValue },
-      mark: { type: 'rect', stroke: PAPER, strokeWidth: 0.6 },
-      encoding: {
-        x: xEnc,
-        x2: { field: 'x1' },
-        y: yEnc,
-        y2: { field: 'y1' },
-        color: {
-          field: 'value',
-          type: 'quantitative',
-          title: info.unit === '' ? map.output : [map.output, `(${info.unit})`],
-          scale: { scheme: HEATMAP_SCHEME, zero: false, nice: false },
-          legend: { orient: 'right', gradientLength: Math.max(120, height - 40), gradientThickness: 11, format: '.4~g' },
-        },
-      },
-    });
-  }
-  const labelled = map.cells.length <= MAX_LABELLED_CELLS ? labelsThatFit(map, withValue, width, height) : [];
-  if (labelled.length > 0) {
-    layers.push({
-      data: { values: labelled },
-      mark: { type: 'text', fontSize: 9.5, baseline: 'middle', align: 'center' },
-      encoding: {
-        x: { field: 'x', type: 'quantitative', scale: xEnc.scale },
-        y: { field: 'y', type: 'quantitative', scale: yEnc.scale },
-        text: { field: 'label', type: 'nominal' },
-        color: { condition: { test: `datum.value > ${midpoint}`, value: '#1d2733' }, value: '#ffffff' },
-      },
-    });
-  }
-  const spec = {
-    $schema: 'https://vega.github.io/schema/vega-lite/v6.json',
-    title: { text: `${shortDescription(info)}`, subtitle: mapSubtitle(map) },
-    width,
-    height,
-    layer: layers,
-  };
-  return spec as unknown as PlotSpec;
 }

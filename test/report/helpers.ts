@@ -98,20 +98,28 @@ export function pathPoints(d: string): [number, number][] {
   return out;
 }
 
+/** A drawn point of a named mark with the frame (plot area) of the view that draws it, page px. */
+export interface MarkPoint {
+  readonly mark: string;
+  readonly x: number;
+  readonly y: number;
+  readonly frame: readonly [number, number, number, number];
+}
+
 /**
- * Points of the named marks (Vega-Lite layer names) that fall outside the plot area of the view
- * drawing them, by more than `tolerance` px. Works on vega's SVG: every view is a group translated
- * into place whose background path gives its size; a symbol (point) counts by its centre.
+ * Every vertex of the named marks (Vega-Lite layer names), in page px, with the frame of the view
+ * drawing it. Works on vega's SVG: every view is a group translated into place whose background
+ * path gives its size; paths count by their vertices, rules (<line>) by both ends, a symbol
+ * (point) and a text by their anchor.
  */
-export function pointsOutsideFrame(svg: string, marks: readonly string[], tolerance = 0.5): OutsidePoint[] {
-  const out: OutsidePoint[] = [];
+export function markPoints(svg: string, marks: readonly string[]): MarkPoint[] {
+  const out: MarkPoint[] = [];
   const stack: { dx: number; dy: number; frame: [number, number, number, number] | null; mark: string | null }[] = [{ dx: 0, dy: 0, frame: null, mark: null }];
   const top = () => stack[stack.length - 1];
-  let checked = 0;
-  for (const m of svg.matchAll(/<(\/?)(g|path)\b([^>]*?)(\/?)>/g)) {
+  for (const m of svg.matchAll(/<(\/?)(g|path|line|text)\b([^>]*?)(\/?)>/g)) {
     const [, closing, tag, attrs, selfClosing] = m;
-    if (tag === 'g' && closing === '/') {
-      stack.pop();
+    if (closing === '/') {
+      if (tag === 'g') stack.pop();
       continue;
     }
     const t = /transform="translate\((-?[0-9.e-]+),(-?[0-9.e-]+)\)"/.exec(attrs);
@@ -124,22 +132,32 @@ export function pointsOutsideFrame(svg: string, marks: readonly string[], tolera
       continue;
     }
     const d = /\sd="([^"]*)"/.exec(attrs)?.[1] ?? '';
-    if (/class="background"/.test(attrs)) {
+    if (tag === 'path' && /class="background"/.test(attrs)) {
       const size = /^M0,0h(-?[0-9.]+)v(-?[0-9.]+)/.exec(d);
       if (size !== null && Number(size[1]) > 1 && Number(size[2]) > 1) top().frame = [top().dx, top().dy, top().dx + Number(size[1]), top().dy + Number(size[2])];
       continue;
     }
     const mark = top().mark;
     const frame = top().frame;
-    if (mark === null || !marks.includes(mark) || frame === null || selfClosing === undefined) continue;
-    const pts: [number, number][] = /role-mark|aria-roledescription="point"/.test(attrs) && t !== null ? [[0, 0]] : pathPoints(d);
-    for (const [px, py] of pts) {
-      checked++;
-      const x = dx + px;
-      const y = dy + py;
-      if (x < frame[0] - tolerance || x > frame[2] + tolerance || y < frame[1] - tolerance || y > frame[3] + tolerance) out.push({ mark, x, y, frame });
-    }
+    if (mark === null || !marks.includes(mark) || frame === null) continue;
+    const num = (name: string): number => Number(new RegExp(`\\s${name}="(-?[0-9.e-]+)"`).exec(attrs)?.[1] ?? 0);
+    let pts: [number, number][];
+    if (tag === 'line') pts = [[num('x1'), num('y1')], [num('x2'), num('y2')]];
+    else if (tag === 'text') pts = [[num('x'), num('y')]];
+    else pts = /role-mark|aria-roledescription="point"/.test(attrs) && t !== null ? [[0, 0]] : pathPoints(d);
+    for (const [px, py] of pts) out.push({ mark, x: dx + px, y: dy + py, frame });
   }
-  if (checked === 0) throw new Error(`no points of ${marks.join(', ')} found in the SVG`);
   return out;
+}
+
+/**
+ * Points of the named marks that fall outside the plot area of the view drawing them, by more
+ * than `tolerance` px (see markPoints).
+ */
+export function pointsOutsideFrame(svg: string, marks: readonly string[], tolerance = 0.5): OutsidePoint[] {
+  const points = markPoints(svg, marks);
+  if (points.length === 0) throw new Error(`no points of ${marks.join(', ')} found in the SVG`);
+  return points
+    .filter(({ x, y, frame }) => x < frame[0] - tolerance || x > frame[2] + tolerance || y < frame[1] - tolerance || y > frame[3] + tolerance)
+    .map(({ mark, x, y, frame }) => ({ mark, x, y, frame }));
 }

@@ -1,7 +1,8 @@
 import { describe, expect, it } from 'vitest';
 import { validateSweep } from '../../src/spec/index.js';
 import { COLUMN_STATUSES } from '../../src/physics/types.js';
-import { binnedMap, cellEdges, gridSliceMap, MAX_MAP_CELLS, middleValue, sweepMapSpec } from '../../src/report/sweep-map.js';
+import { binnedMap, cellEdges, gridSliceMap, MAX_MAP_CELLS, middleValue } from '../../src/report/sweep-map.js';
+import { sweepMapSpec } from '../../src/report/map-figure.js';
 import type { ResultsColumns } from '../../src/report/results-columns.js';
 import { renderSvg } from '../../src/report/render.js';
 import { sensitivityBarsSpec, mainEffectsSpec } from '../../src/report/sensitivity-bars.js';

@@ -15,6 +15,7 @@ import { TOLERANCE_DEFAULT as TOLERANCE_RANGE_DEFAULT } from '../../spec/limits.
 import type { ModelOptions, Scenario, ThermalModel, WaterMode } from '../../physics/types.js';
 import { MAX_DIAGRAM_SCENARIOS } from '../../report/theme.js';
 import { addFigureSizeOptions, checkOutputFile, figureOutput } from '../figure-output.js';
+import { registerPlotMap } from './plot-map.js';
 
 const WATER_MODES: readonly WaterMode[] = ['batch', 'fractional'];
 const THERMAL_CHOICES: readonly (ThermalModel | 'auto')[] = ['auto', 'isentropic', 'conductive'];
@@ -143,4 +144,5 @@ export function registerPlot(program: Command): void {
     process.stdout.write(`column diagram: ${o.output} (${scenarios.length} scenario${scenarios.length === 1 ? '' : 's'})\n`);
     for (const note of r.data.notes) process.stderr.write(`note: ${note}\n`);
   });
+  registerPlotMap(plot);
 }

@@ -4,7 +4,8 @@
  */
 import type { Command } from 'commander';
 import { InputError } from '../../errors.js';
-import { parseAtOption } from '../../report/report-options.js';
+import { parseDpiOption, parseWidthOption, type ExportSize } from '../../report/export-options.js';
+import { parseAtOption, parseContourOption } from '../../report/report-options.js';
 import { CAPPED_HELP, parseCappedOption, type CappedChoice } from '../../run/capped-rows.js';
 import { parseNumberOption } from '../options.js';
 
@@ -17,7 +18,35 @@ interface ReportCliOptions {
   resamples?: number;
   seed?: number;
   title?: string;
+  contour: string[];
+  figures?: string;
+  width?: string;
+  dpi?: string;
+  force?: boolean;
   capped?: CappedChoice;
+}
+
+/** The export size of `report --figures`. @throws InputError for --width/--dpi without --figures */
+function figuresSize(o: ReportCliOptions): ExportSize {
+  const problems: string[] = [];
+  if (o.figures === undefined) {
+    for (const [flag, v] of [['--width', o.width], ['--dpi', o.dpi]] as const) if (v !== undefined) problems.push(`${flag}: applies to the files of --figures DIR; give --figures too`);
+    if (problems.length > 0) throw new InputError(problems);
+    return {};
+  }
+  const attempt = <T>(fn: () => T): T | undefined => {
+    try {
+      return fn();
+    } catch (err) {
+      if (!(err instanceof InputError)) throw err;
+      problems.push(...err.problems);
+      return undefined;
+    }
+  };
+  const width = o.width === undefined ? undefined : attempt(() => parseWidthOption(o.width as string));
+  const dpi = o.dpi === undefined ? undefined : attempt(() => parseDpiOption(o.dpi as string));
+  if (problems.length > 0) throw new InputError(problems);
+  return { width, dpi };
 }
 
 /** `r7.arrow` -> `r7.report.html`. */
@@ -39,10 +68,21 @@ export function registerReport(program: Command): void {
     .option('--resamples <n>', 'bootstrap resamples for saltelli designs (default 500)', (v: string) => parseNumberOption('--resamples', v, 10, 100000, 'resamples'))
     .option('--seed <n>', 'bootstrap seed (default 1)', (v: string) => parseNumberOption('--seed', v, 0, 2 ** 31, ''))
     .option('--title <text>', 'page title (default: "meltsweep report: <sweep name>")')
+    .option('--contour <output=values>', 'contour lines on the map of an output, e.g. crust_km=7 or crust_km=7,9 (repeatable)', (v: string, prev: string[]) => [...prev, v], [] as string[])
+    .option('--figures <dir>', 'also write every figure of the report into DIR as SVG, PNG and PDF files (NN-KIND-OUTPUT.svg|png|pdf)')
+    .option('--width <width>', '--figures: figure width, physical (85mm, 17.8cm, 3.35in; maps and column diagrams are laid out to it) or PNG pixels (1200px)')
+    .option('--dpi <n>', '--figures: PNG resolution in dots per inch (default 300)')
+    .option('--force', '--figures: replace existing figure files')
     .option('--capped <choice>', CAPPED_HELP, parseCappedOption)
     .action(async (results: string, o: ReportCliOptions) => {
       const out = o.output ?? reportPathFor(results);
       if (!/\.html?$/i.test(out)) throw new InputError(`-o: ${JSON.stringify(out)} is not allowed; the report is an HTML file: give a name ending in .html`);
+      const size = figuresSize(o);
+      const contours = parseContourOption(o.contour);
+      if (o.figures !== undefined) {
+        const { checkFiguresDir } = await import('../../report/report-figures.js');
+        checkFiguresDir(o.figures, o.force);
+      }
       // the plotting libraries load only when a report is written (they add ~0.3 s to start-up)
       const { writeHtmlReport } = await import('../../report/html-report.js');
       const report = await writeHtmlReport(results, out, {
@@ -53,8 +93,14 @@ export function registerReport(program: Command): void {
         resamples: o.resamples,
         seed: o.seed,
         title: o.title,
+        contours,
         capped: o.capped,
       });
       process.stdout.write(`report: ${out} (${report.plots.length} pictures)\n`);
+      if (o.figures !== undefined) {
+        const { writeReportFigures } = await import('../../report/report-figures.js');
+        const files = await writeReportFigures(o.figures, report.figures, size, o.force);
+        process.stdout.write(`figures: ${files.length} files in ${o.figures} (${report.figures.length} figures as SVG, PNG and PDF)\n`);
+      }
     });
 }
