@@ -144,7 +144,7 @@ class AdaptiveIntegrator {
     this.s = s;
     this.fHi = s.fractional ? 1 - 1e-12 : 1;
     this.D = p.D_H2O;
-    this.tolDf = 1e-3 * tol * F_FLOOR;
+    this.tolDf = 0.1 * tol * F_FLOOR;
     // start: F = 0 on the solid adiabat at the onset, or a state already melting (capped onset)
     const fStart = start?.f ?? 0;
     this.fromOnset = start === undefined;
@@ -242,7 +242,7 @@ class AdaptiveIntegrator {
       const fc = s.curves.fCpx;
       // (also where the last Newton correction is not small against F itself: just above the onset)
       const otherBranch = s.fEval < fc !== f1 < fc || (this.x0 > 0 && s.satEval !== s.sat);
-      if (otherBranch || Math.abs(f1 - s.fEval) > 1e-6 * f1) s.residual(f1);
+      if (otherBranch || Math.abs(f1 - s.fEval) > 1e-3 * this.tol * f1) s.residual(f1);
       // T from the discrete entropy balance at F1 (equal to T on the melting curve at F1 up to the
       // solver's tolerance, and exactly isentropic whichever branch the solver ended on)
       s.t1K = s.offCurveTempK(f1);

@@ -1,5 +1,5 @@
 /** Melting processes as plug-ins: the contract, the registry and the built-in processes. */
-export type { AnyProcess, InputDef, ProcessDefinition, ProcessModelOptions, ProcessResult, ProfileTableSampler, ResolveOptions, ResultDef } from './types.js';
+export type { AnyProcess, InputDef, ModelContext, ModelFlag, ProcessDefinition, ProcessModelOptions, ProcessResult, ProfileTableSampler, ResolveOptions, ResultDef } from './types.js';
 export {
   DEFAULT_PROCESS,
   PROCESSES,
@@ -14,3 +14,4 @@ export {
   registerProcess,
 } from './registry.js';
 export { decompression, DECOMPRESSION_INPUTS, DECOMPRESSION_RESULTS } from './decompression.js';
+export { flux, FLUX_INPUTS, FLUX_TABLE_INPUTS, FLUX_RESULTS, FLUX_PROFILE_FIELDS, computeFlux, type FluxRuntimeModel } from './flux.js';

@@ -9,6 +9,7 @@
 import { InputError } from '../errors.js';
 import type { SweepSpec } from '../spec/types.js';
 import { decompression } from './decompression.js';
+import { flux } from './flux.js';
 import type { AnyProcess, InputDef, ProcessDefinition, ResultDef } from './types.js';
 
 /** Name of the process used when a sweep file or command names none. */
@@ -25,6 +26,7 @@ export function defineProcess<M>(p: ProcessDefinition<M>): AnyProcess {
 /** The processes built into meltsweep, in the order they are listed (one line per process). */
 export const PROCESSES: readonly AnyProcess[] = Object.freeze([
   defineProcess(decompression),
+  defineProcess(flux),
 ]);
 
 /** Processes added at run time with registerProcess (tests, plug-ins), by name. */

@@ -60,7 +60,7 @@ export interface ProcessModelOptions {
    * Wrap it with `describeModelValidator` (src/spec/json-schema.ts) to state each key's JSON Schema
    * for `meltsweep schema`; without it the sweep-file schema checks the keys by name only.
    */
-  validate(raw: Readonly<Record<string, unknown>>, problems: ProblemList): ModelSpec | undefined;
+  validate(raw: Readonly<Record<string, unknown>>, problems: ProblemList, context?: ModelContext): ModelSpec | undefined;
   /** the canonical form of an already valid section (used by normalizeSweep) */
   normalize(model: ModelSpec): ModelSpec;
   /**
@@ -70,6 +70,36 @@ export interface ProcessModelOptions {
   checkInputs?(model: ModelSpec, given: ReadonlySet<string>, problems: ProblemList): void;
   /** the options in words for `plan` (e.g. "thermal auto, water batch, step 0.05 GPa"); absent: "key value" pairs */
   summary?(model: ModelSpec): string;
+  /**
+   * Optional: options of `meltsweep column` that set model keys of this process (e.g. --heat sets
+   * `heat`). The value is handed to `validate` as text (or as { file } for `file` flags, a path
+   * relative to the working folder). Decompression's --mode, --thermal and --step are built in.
+   */
+  readonly cliFlags?: readonly ModelFlag[];
+  /**
+   * Optional: words added to "X is not an input of process P; its inputs: ..." when the model
+   * options removed inputs (e.g. "the geotherm table sets the temperatures"); null for none.
+   */
+  inputsNote?(model: ModelSpec): string | null;
+}
+
+/** Where a model section comes from, for options that name files. */
+export interface ModelContext {
+  /** folder that relative file names in the section start from (the sweep file's folder); default: the working folder */
+  readonly baseDir?: string;
+}
+
+/** A `meltsweep column` option that sets one model key of a process. */
+export interface ModelFlag {
+  /** the option without dashes, e.g. 'heat' */
+  readonly flag: string;
+  /** the model key it sets */
+  readonly key: string;
+  /** the value placeholder in the help text, e.g. 'mode' or 'file.csv' */
+  readonly placeholder: string;
+  readonly description: string;
+  /** 'text': the value as given; 'file': the value becomes { file: VALUE } */
+  readonly kind: 'text' | 'file';
 }
 
 /** How a run asks for a process's runtime model. */

@@ -11,7 +11,7 @@ import type { ProblemList } from './problems.js';
 export type JsonSchema = { readonly [keyword: string]: unknown };
 
 /** A validator of a process's `model` section (ProcessModelOptions.validate). */
-export type ModelSectionValidator = (raw: Readonly<Record<string, unknown>>, problems: ProblemList) => ModelSpec | undefined;
+export type ModelSectionValidator = (raw: Readonly<Record<string, unknown>>, problems: ProblemList, context?: { readonly baseDir?: string }) => ModelSpec | undefined;
 
 /**
  * A model-section validator that states, as JSON Schema, what each of its keys accepts: the

@@ -3,7 +3,7 @@
  * file, line and column: `ridge.yaml:4:1: YAML syntax error: ...`.
  */
 import { readFile } from 'node:fs/promises';
-import { basename, extname } from 'node:path';
+import { basename, dirname, extname } from 'node:path';
 import { parseDocument } from 'yaml';
 import { InputError } from '../errors.js';
 import { findJsonSyntaxError } from './json-syntax.js';
@@ -70,13 +70,14 @@ function parseYaml(text: string, sourceName: string): unknown {
 
 /**
  * Parse and validate a sweep file's text (JSON or YAML, chosen by the extension of
- * `sourceName` or by the content). A file without `name` takes the base name of `sourceName`.
+ * `sourceName` or by the content). A file without `name` takes the base name of `sourceName`; file
+ * names inside the model section (a flux geotherm table) are relative to the folder of `sourceName`.
  * @throws InputError listing every problem (syntax errors with line and column).
  */
 export function parseSweepText(text: string, sourceName: string): SweepSpec {
   const data = parseSweepData(text, sourceName);
   const stem = basename(sourceName, extname(sourceName));
-  return validateSweep(data, { defaultName: stem === '' ? 'sweep' : stem });
+  return validateSweep(data, { defaultName: stem === '' ? 'sweep' : stem, baseDir: dirname(sourceName) });
 }
 
 /**

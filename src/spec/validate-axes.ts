@@ -38,6 +38,8 @@ export interface ProcessInputs {
   /** the process name, for messages */
   readonly process: string;
   readonly inputs: readonly InputDef[];
+  /** why some inputs are absent under the model options (ProcessModelOptions.inputsNote), or null */
+  readonly note?: string | null;
 }
 
 /**
@@ -55,7 +57,7 @@ export function checkInputKeys(obj: Record<string, unknown>, pi: ProcessInputs, 
       problems.add(`${path}.${key}`, `unknown input; did you mean ${near}?`);
       suggested.push(near);
     } else {
-      problems.add(`${path}.${key}`, `${key} is not an input of process ${pi.process}; its inputs: ${names.join(', ')}`);
+      problems.add(`${path}.${key}`, `${key} is not an input of process ${pi.process}; its inputs: ${names.join(', ')}${pi.note ? ` (${pi.note})` : ''}`);
     }
   }
   return suggested;

@@ -120,7 +120,8 @@ function readStep(raw: unknown, problems: ProblemList): number | undefined {
   return v;
 }
 
-function validateParams(raw: unknown, problems: ProblemList): ParamOverrides | undefined {
+/** Validate `model.params` (shared by every process): known names, ranges and relations (resolveParams). */
+export function validateParams(raw: unknown, problems: ProblemList): ParamOverrides | undefined {
   if (!isMapping(raw)) {
     problems.add('model.params', `${describeFound(raw)} is not a mapping of parameter names to values, e.g. { M_cpx: 0.15 }`);
     return undefined;

@@ -25,6 +25,8 @@ export const MAX_NAME_LENGTH = 200;
 export interface ValidateOptions {
   /** name used when the file has none (parseSweepText passes the file's base name); default "sweep" */
   readonly defaultName?: string;
+  /** folder that file names in the model section start from (parseSweepText: the sweep file's folder); default: the working folder */
+  readonly baseDir?: string;
 }
 
 /**
@@ -50,8 +52,9 @@ export function validateSweep(raw: unknown, options: ValidateOptions = {}): Swee
   const designProblems = new ProblemList();
   const { design, kind } = validateDesign(raw.design, designProblems);
   const modelProblems = new ProblemList();
-  const model = validateModelSection(raw.model, process, modelProblems);
-  const pi: ProcessInputs = { process: process.name, inputs: process.inputsFor(model ?? { ...process.model.defaults, params: {} }) };
+  const model = validateModelSection(raw.model, process, modelProblems, options.baseDir);
+  const modelOrDefaults = model ?? { ...process.model.defaults, params: {} };
+  const pi: ProcessInputs = { process: process.name, inputs: process.inputsFor(modelOrDefaults), note: process.model.inputsNote?.(modelOrDefaults) ?? null };
   const axesResult = validateAxes(raw.axes, kind, pi, problems);
   const fixedResult = validateFixed(raw.fixed, axesResult.named, pi, problems);
   const fixed = fixedResult.fixed;
@@ -113,14 +116,14 @@ function readProcess(rawModel: unknown): AnyProcess {
 }
 
 /** The model section, validated by its process (the `process` key itself is read by readProcess). */
-function validateModelSection(raw: unknown, process: AnyProcess, problems: ProblemList): ModelSpec | undefined {
+function validateModelSection(raw: unknown, process: AnyProcess, problems: ProblemList, baseDir: string | undefined): ModelSpec | undefined {
   if (raw !== undefined && raw !== null && !isMapping(raw)) {
     problems.add('model', `${describeFound(raw)} is not a mapping; write { process: ..., params: { ... } } with the options of the process`);
     return undefined;
   }
   const body: Record<string, unknown> = isMapping(raw) ? { ...raw } : {};
   delete body.process;
-  return process.model.validate(body, problems);
+  return process.model.validate(body, problems, baseDir === undefined ? {} : { baseDir });
 }
 
 interface FixedResult {

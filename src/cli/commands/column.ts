@@ -24,6 +24,23 @@ const MODEL_FLAGS = [
   { flag: 'deep-onset', key: 'deep_onset' },
 ] as const;
 
+/** A model option of `column`: decompression's built-in ones, then those processes declare (ProcessModelOptions.cliFlags). */
+interface ColumnModelFlag {
+  readonly flag: string;
+  readonly key: string;
+  readonly numeric?: boolean;
+  readonly file?: boolean;
+}
+
+/** Every model option, once (the first declaration of a flag wins). */
+function modelFlags(): ColumnModelFlag[] {
+  const out: ColumnModelFlag[] = [...MODEL_FLAGS];
+  for (const p of allProcesses()) {
+    for (const f of p.model.cliFlags ?? []) if (!out.some((x) => x.flag === f.flag)) out.push({ flag: f.flag, key: f.key, file: f.kind === 'file' });
+  }
+  return out;
+}
+
 /** What commander hands the action: input flags and model flags as text, plus the fixed options. */
 type ColumnOptions = Record<string, string | boolean | undefined> & { process?: string; json?: boolean; profile?: string };
 
@@ -54,14 +71,14 @@ export function columnInputs(o: ColumnOptions): { process: AnyProcess; inputs: R
   const problems: string[] = [];
   // the model section from the model flags, validated by the process (its messages name model keys)
   const section: Record<string, unknown> = {};
-  for (const m of MODEL_FLAGS) {
+  for (const m of modelFlags()) {
     const raw = o[optionKey(m.flag)];
     if (typeof raw !== 'string') continue;
     if (!process.model.keys.includes(m.key)) {
       problems.push(`--${m.flag}: process ${process.name} has no option ${m.key}; its options: ${process.model.keys.join(', ')}`);
       continue;
     }
-    section[m.key] = 'numeric' in m ? Number(raw) : raw;
+    section[m.key] = m.numeric === true ? Number(raw) : m.file === true ? { file: raw } : raw;
   }
   // --step allows finer steps than a sweep file (STEP_GPA_RANGE): checked here, set after validation
   let step: number | undefined;
@@ -84,10 +101,14 @@ export function columnInputs(o: ColumnOptions): { process: AnyProcess; inputs: R
   const model = validated !== undefined && step !== undefined ? withFixedStep(validated, step) : validated;
   problems.push(...modelProblems.list().map(flagOfModelProblem));
   const inputs: Record<string, number> = {};
-  const own = process.inputsFor(model ?? { ...process.model.defaults, params: {} });
+  const modelOrDefaults = model ?? { ...process.model.defaults, params: {} };
+  const own = process.inputsFor(modelOrDefaults);
+  const note = process.model.inputsNote?.(modelOrDefaults) ?? null;
   for (const other of allInputFlags()) {
     if (o[optionKey(other.cliFlag)] !== undefined && !own.some((i) => i.cliFlag === other.cliFlag)) {
-      problems.push(`--${other.cliFlag}: ${other.name} is not an input of process ${process.name}; its inputs: ${own.map((i) => `${i.name} (--${i.cliFlag})`).join(', ')}`);
+      problems.push(
+        `--${other.cliFlag}: ${other.name} is not an input of process ${process.name}; its inputs: ${own.map((i) => `${i.name} (--${i.cliFlag})`).join(', ')}${note === null ? '' : ` (${note})`}`,
+      );
     }
   }
   for (const input of own) {
@@ -125,9 +146,10 @@ function withFixedStep(model: ModelSpec, stepGpa: number): ModelSpec {
 
 /** "model.thermal: ..." -> "--thermal: ..." for model keys that have a flag here. */
 function flagOfModelProblem(message: string): string {
-  for (const m of MODEL_FLAGS) {
-    const prefix = `model.${m.key}`;
-    if (message.startsWith(prefix)) return `--${m.flag}${message.slice(prefix.length)}`;
+  for (const m of modelFlags()) {
+    for (const prefix of m.file === true ? [`model.${m.key}.file`, `model.${m.key}`] : [`model.${m.key}`]) {
+      if (message.startsWith(`${prefix}:`)) return `--${m.flag}${message.slice(prefix.length)}`;
+    }
   }
   return message;
 }
@@ -217,7 +239,9 @@ export function registerColumn(program: Command): void {
     .option('--thermal <model>', 'thermal model: isentropic, conductive, auto (default auto: conductive with --upwelling, else isentropic) [process decompression]')
     .option('--step <GPa>', `isentropic column: a fixed pressure step (${formatRange(STEP_GPA_RANGE)}) instead of error control [process decompression]`)
     .option('--tolerance <rel>', `isentropic column: relative tolerance of the error-controlled steps (${TOLERANCE_MIN}-${TOLERANCE_MAX}, default ${TOLERANCE_DEFAULT}) [process decompression]`)
-    .option('--deep-onset <mode>', 'onset deeper than 8 GPa: drop (status onset_beyond_range, default) or cap (computed from 8 GPa up, marked onset_capped) [process decompression]')
+    .option('--deep-onset <mode>', 'onset deeper than 8 GPa: drop (status onset_beyond_range, default) or cap (computed from 8 GPa up, marked onset_capped) [process decompression]');
+  for (const p of allProcesses()) for (const f of p.model.cliFlags ?? []) if (!cmd.options.some((x) => x.long === `--${f.flag}`)) cmd.option(`--${f.flag} <${f.placeholder}>`, f.description);
+  cmd
     .option('--json', 'print one JSON object: status, reason, every numeric result field (null where not applicable), then the inputs and model options it ran with')
     .option('--profile <file.csv>', 'write the profile along the melting column to a CSV file')
     .action((o: ColumnOptions) => {
