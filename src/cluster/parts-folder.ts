@@ -97,7 +97,7 @@ export async function completeParts(partsDir: string, record: SubmissionRecord):
     ]);
   }
   for (const file of files) {
-    const hash = readResultsMeta(await readTableSchema(file)).sweepHash;
+    const hash = readResultsMeta(await readTableSchema(file), file).sweepHash;
     if (hash !== record.sweepHash) {
       problems.push(`merge: ${file} comes from sweep ${hash.slice(0, 12)}, but ${SUBMISSION_FILE} records sweep ${record.sweepHash.slice(0, 12)}`);
     }

@@ -9,6 +9,7 @@ import { DEFAULT_PROCESS, processNamed, processNameOf, resultsOf } from '../proc
 import type { SweepSpec } from '../spec/types.js';
 import { COLUMN_STATUSES } from '../physics/types.js';
 import { PARAM_INFO, PARAM_NAMES, type MeltParams } from '../physics/params.js';
+import { checkResultsMetadata } from './results-meta-check.js';
 
 /** Metadata keys written by meltsweep (schema level). */
 export const META = {
@@ -122,14 +123,15 @@ export function resultsSchema(meta: ResultsTableMeta): arrow.Schema {
   return new arrow.Schema(resultFieldInfos(meta, meta.blockLabels !== null).map(arrowField), md);
 }
 
-/** Read back the metadata written by resultsSchema; throws with the missing key named. */
-export function readResultsMeta(schema: arrow.Schema): ResultsTableMeta & { sweep: unknown } {
+/**
+ * Read back the metadata written by resultsSchema, validated first (results-meta-check.ts).
+ * @param file the table's path, named in messages
+ * @throws InputError naming the file, each metadata key at fault and its problem
+ */
+export function readResultsMeta(schema: arrow.Schema, file = 'the table'): ResultsTableMeta & { sweep: unknown } {
   const md = schema.metadata;
-  const get = (k: string): string => {
-    const v = md.get(k);
-    if (v === undefined) throw new Error(`not a meltsweep results table: schema metadata ${k} is missing`);
-    return v;
-  };
+  checkResultsMetadata(md, META, file);
+  const get = (k: string): string => md.get(k) as string;
   const [rowStart, rowEnd] = get(META.rowRange).split('-').map(Number);
   const paramsMeta = JSON.parse(get(META.params)) as Record<string, { value: number }>;
   const params = Object.fromEntries(Object.entries(paramsMeta).map(([k, v]) => [k, v.value])) as unknown as MeltParams;

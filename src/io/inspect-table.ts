@@ -3,6 +3,7 @@
  * sensitivity), schema with units, the sweep metadata, row counts by status and the first rows.
  * Works on every format meltsweep writes (Arrow IPC, Parquet, CSV with its sidecar).
  */
+import { checkResultsMetadata } from './results-meta-check.js';
 import type * as arrow from 'apache-arrow';
 import { InputError } from '../errors.js';
 import { META } from './arrow-schema.js';
@@ -96,6 +97,8 @@ export async function inspectTable(file: string, rows = 5): Promise<TableInspect
   try {
     const schema = await readTableSchema(file);
     const md = schema.metadata;
+    // a results table's metadata is checked before it is shown (other tables are shown as they are)
+    if (md.get(META.table) === 'results') checkResultsMetadata(md, META, file);
     const columns = schema.fields.map((f: arrow.Field) => ({
       name: f.name,
       type: String(f.type),

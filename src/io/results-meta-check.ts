@@ -66,14 +66,15 @@ export interface MetaKeys {
 /**
  * Check a results table's schema metadata.
  * @param where how to name the table in messages (its file path, or "the table")
- * @throws InputError "FILE: not a valid meltsweep results table: <key>: <problem>; ..." listing every problem
+ * @throws InputError "FILE is not a meltsweep results table: ..." when keys are missing, else one
+ *   "FILE: invalid results metadata: KEY: PROBLEM" per problem
  */
 export function checkResultsMetadata(md: ReadonlyMap<string, string>, keys: MetaKeys, where: string): void {
   const problems = new ProblemList();
   const required = [keys.sweep, keys.sweepHash, keys.version, keys.params, keys.pointCount, keys.rowRange, keys.shard];
   const missing = required.filter((k) => md.get(k) === undefined);
   if (missing.length > 0) {
-    throw new InputError(`${where}: not a meltsweep results table: schema metadata ${missing.join(', ')} ${missing.length === 1 ? 'is' : 'are'} missing`);
+    throw new InputError(`${where} is not a meltsweep results table: schema metadata ${missing.join(', ')} ${missing.length === 1 ? 'is' : 'are'} missing`);
   }
   const get = (k: string): string => md.get(k) as string;
 

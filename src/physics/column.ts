@@ -2,7 +2,7 @@
  * Entry point of the physics for one scenario: picks the thermal model from a lookup table and
  * guarantees a well-formed row (never throws, never a non-finite number in an ok row).
  */
-import { checkFinite, failedResult, type ColumnFn } from './column-result.js';
+import { failedResult, type ColumnFn } from './column-result.js';
 import { conductiveColumn } from './conductive-column.js';
 import { DEFAULT_TOLERANCE } from './isentropic-adaptive.js';
 import { isentropicColumn } from './isentropic-column.js';
@@ -25,22 +25,20 @@ export function resolveThermalModel(scenario: Scenario, model: ModelOptions): Th
 }
 
 /**
- * Compute one melting column. Pure and thread-safe; never throws: an exception or a non-finite
- * number in the result gives status `failed` with a reason.
+ * Compute one melting column. Pure and thread-safe; never throws: the thermal models turn an
+ * exception or a non-finite number into status `failed` with a reason.
  *
  * @param scenario tp_c (degC), water_ppm (ppm), lid_km (km), upwelling_mm_yr (mm/yr, NaN when absent)
  * @param model thermal model (`auto`: conductive with an upwelling rate, else isentropic), water mode,
  *   parameters, isentropic accuracy (tolerance, default 1e-4, or a fixed stepGpa) and whether to return the profile
  */
 export function meltColumn(scenario: Scenario, model: ModelOptions): ColumnResult {
-  try {
-    const name = resolveThermalModel(scenario, model);
-    const fn = Object.prototype.hasOwnProperty.call(THERMAL_MODELS, name) ? THERMAL_MODELS[name] : undefined;
-    if (fn === undefined) return withCapFields(failedResult(`unknown thermal model ${String(model.thermal)}`), model);
-    return withCapFields(checkFinite(fn(scenario, model)), model);
-  } catch (err) {
-    return withCapFields(failedResult(`column: ${err instanceof Error ? err.message : String(err)}`), model);
-  }
+  // one guard per layer, not stacked: each thermal model never throws and checks its rows are
+  // finite (ColumnFn contract, column-result.ts); computeChunk guards the process boundary
+  const name = resolveThermalModel(scenario, model);
+  const fn = Object.prototype.hasOwnProperty.call(THERMAL_MODELS, name) ? THERMAL_MODELS[name] : undefined;
+  if (fn === undefined) return withCapFields(failedResult(`unknown thermal model ${String(model.thermal)}`), model);
+  return withCapFields(fn(scenario, model), model);
 }
 
 /**

@@ -34,6 +34,7 @@ import { farFieldTempK } from './conductive-far-field.js';
 import { buildNodeMeltTable } from './conductive-melt.js';
 import { type ConductiveSystem, solveConductiveSystem } from './conductive-solver.js';
 import { batchMeltWaterWtPct, wetSolidusC } from './melting.js';
+import { checkColumnInputs } from './column-inputs.js';
 import { beyondRangeReason, findMeltOnset } from './onset.js';
 import type { MeltParams } from './params.js';
 import { MODEL_MAX_P_GPA, type ColumnProfile, type ColumnResult, type ModelOptions, type Scenario } from './types.js';
@@ -111,9 +112,8 @@ function solveUnchecked(scenario: Scenario, model: ModelOptions, domain: Conduct
   const fail = (reason: string): ConductiveOutcome => ({ kind: 'failed', reason });
   if (model.water === 'fractional') return fail(CONDUCTIVE_FRACTIONAL_REASON);
   if (model.water !== 'batch') return fail(`unknown water mode ${String(model.water)}`);
-  if (!Number.isFinite(tpC)) return fail(`tp_c must be a finite number, got ${String(tpC)}`);
-  if (!(Number.isFinite(waterPpm) && waterPpm >= 0)) return fail(`water_ppm must be a finite number >= 0, got ${String(waterPpm)}`);
-  if (!(Number.isFinite(lidKm) && lidKm >= 0)) return fail(`lid_km must be a finite number >= 0, got ${String(lidKm)}`);
+  const checked = checkColumnInputs(scenario, p);
+  if (!checked.ok) return fail(checked.reason);
   if (!(Number.isFinite(wMmYr) && wMmYr > 0)) {
     return fail(`the conductive model needs a positive upwelling rate, got upwelling_mm_yr = ${String(wMmYr)}`);
   }
@@ -123,10 +123,7 @@ function solveUnchecked(scenario: Scenario, model: ModelOptions, domain: Conduct
   if (!(maxIterations >= 1)) return fail(`conductiveMaxIterations must be at least 1, got ${String(maxIterations)}`);
 
   const x0 = wtPctFromPpm(waterPpm);
-  const pLidGpa = pGpaFromDepthKm(lidKm, p.rho_s, p.g);
-  if (!(pLidGpa < MODEL_MAX_P_GPA)) {
-    return fail(`the lid base at ${pLidGpa.toFixed(3)} GPa is deeper than the model range (${MODEL_MAX_P_GPA} GPa)`);
-  }
+  const pLidGpa = checked.pLidGpa;
   const onset = findMeltOnset(tpC, x0, pLidGpa, p);
   if (onset.kind === 'beyond' && model.deepOnset !== 'cap') return { kind: 'onset_beyond_range', reason: beyondRangeReason(onset) };
   // a capped onset (deep_onset: cap): the grid has a node at the cap pressure, the deepest that may
@@ -203,12 +200,17 @@ function solveUnchecked(scenario: Scenario, model: ModelOptions, domain: Conduct
  * @param model water mode (batch), params, withProfile, conductiveResolution, conductiveMaxIterations
  */
 export function conductiveColumn(scenario: Scenario, model: ModelOptions, domain: ConductiveDomainOptions = {}): ColumnResult {
-  const out = conductiveProfile(scenario, model, domain);
-  if (out.kind === 'failed') return failedResult(out.reason);
-  if (out.kind === 'onset_beyond_range') return onsetBeyondRangeResult(out.reason);
-  const s = out.state;
-  if (s.onsetIndex < 0) return noMeltResult(scenario.upwelling_mm_yr, s.surfaceHeatFlowMwM2);
-  return meltingResult(summarize(s, wtPctFromPpm(scenario.water_ppm), model.params, model.withProfile === true), scenario, model.params);
+  // the one never-throw guard of this entry point covers the solve and the aggregates
+  try {
+    const out = solveUnchecked(scenario, model, domain);
+    if (out.kind === 'failed') return failedResult(out.reason);
+    if (out.kind === 'onset_beyond_range') return onsetBeyondRangeResult(out.reason);
+    const s = out.state;
+    if (s.onsetIndex < 0) return noMeltResult(scenario.upwelling_mm_yr, s.surfaceHeatFlowMwM2);
+    return meltingResult(summarize(s, wtPctFromPpm(scenario.water_ppm), model.params, model.withProfile === true), scenario, model.params);
+  } catch (err) {
+    return failedResult(`conductive column: ${err instanceof Error ? err.message : String(err)}`);
+  }
 }
 
 /**

@@ -38,6 +38,7 @@ import { adiabatTempK } from './adiabat.js';
 import { IsentropicStepper } from './isentropic-step.js';
 import { setMeltingCurves, waterSaturationLowerBound, waterSaturationSlope, waterSaturationWtPct } from './melting.js';
 import { cappedStart, type PathStart } from './capped-onset.js';
+import { checkColumnInputs } from './column-inputs.js';
 import { beyondRangeReason, findMeltOnset } from './onset.js';
 import { onsetIntervalIntegral, type IsentropicPath } from './isentropic-path.js';
 import { DEFAULT_TOLERANCE, integrateIsentropicPathAdaptive, TOLERANCE_MAX, TOLERANCE_MIN } from './isentropic-adaptive.js';
@@ -253,10 +254,9 @@ export function integrateIsentropicPath(
 export function isentropicColumn(scenario: Scenario, model: ModelOptions): ColumnResult {
   try {
     const p = model.params;
-    const { tp_c: tpC, water_ppm: waterPpm, lid_km: lidKm } = scenario;
-    if (!Number.isFinite(tpC)) return failedResult(`tp_c must be a finite number, got ${String(tpC)}`);
-    if (!(Number.isFinite(waterPpm) && waterPpm >= 0)) return failedResult(`water_ppm must be a finite number >= 0, got ${String(waterPpm)}`);
-    if (!(Number.isFinite(lidKm) && lidKm >= 0)) return failedResult(`lid_km must be a finite number >= 0, got ${String(lidKm)}`);
+    const { tp_c: tpC, water_ppm: waterPpm } = scenario;
+    const checked = checkColumnInputs(scenario, p);
+    if (!checked.ok) return failedResult(checked.reason);
     if (model.water !== 'batch' && model.water !== 'fractional') return failedResult(`unknown water mode ${String(model.water)}`);
     // an explicit step is the fixed-step path (as before tolerances existed); else error control
     const stepGpa = model.stepGpa;
@@ -267,10 +267,7 @@ export function isentropicColumn(scenario: Scenario, model: ModelOptions): Colum
     }
 
     const x0 = wtPctFromPpm(waterPpm);
-    const pTop = pGpaFromDepthKm(lidKm, p.rho_s, p.g);
-    if (!(pTop < MODEL_MAX_P_GPA)) {
-      return failedResult(`the lid base at ${pTop.toFixed(3)} GPa is deeper than the model range (${MODEL_MAX_P_GPA} GPa)`);
-    }
+    const pTop = checked.pLidGpa;
     const onset = findMeltOnset(tpC, x0, pTop, p);
     if (onset.kind === 'none') return noMeltResult(scenario.upwelling_mm_yr);
     if (onset.kind === 'beyond' && model.deepOnset !== 'cap') return onsetBeyondRangeResult(beyondRangeReason(onset));

@@ -38,10 +38,18 @@ export interface ResultsFileInfo {
 export async function readResultsInfo(file: string, argName = 'RESULTS'): Promise<ResultsFileInfo> {
   if (!fs.existsSync(file) || !fs.statSync(file).isFile()) throw new InputError(`${argName}: ${file} does not exist or is not a file; give a results file written by meltsweep run or merge`);
   let meta: ResultsTableMeta & { sweep: unknown };
+  let schema: arrow.Schema;
   try {
-    meta = readResultsMeta(await readTableSchema(file));
+    schema = await readTableSchema(file);
   } catch (err) {
     throw new InputError(`${argName}: ${file} is not a meltsweep results table (${err instanceof Error ? err.message : String(err)})`);
+  }
+  try {
+    meta = readResultsMeta(schema, file);
+  } catch (err) {
+    // the metadata check names the file, the key and the problem
+    if (err instanceof InputError) throw new InputError(err.problems.map((p) => `${argName}: ${p}`));
+    throw err;
   }
   const names = meta.results.map((r) => r.name);
   const seen = new Set<string>();

@@ -173,8 +173,9 @@ export async function fitResultsFile(file: string, options: FitFileOptions): Pro
   const schema = await readTableSchema(file);
   let meta: ResultsTableMeta & { sweep: unknown };
   try {
-    meta = readResultsMeta(schema);
+    meta = readResultsMeta(schema, file);
   } catch (err) {
+    if (err instanceof InputError) throw new InputError(err.problems.map((p) => `RESULTS: ${p}`));
     throw new InputError(`RESULTS: ${file} is not a meltsweep results table (${err instanceof Error ? err.message : String(err)})`);
   }
   const spec = meta.sweep as SweepSpec;

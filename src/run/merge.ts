@@ -54,10 +54,18 @@ export async function checkShards(files: readonly string[]): Promise<ShardInfo[]
   for (const file of files) {
     if (!fs.existsSync(file)) throw new InputError(`merge: ${file} does not exist`);
     let meta: ResultsTableMeta;
+    let schema: arrow.Schema;
     try {
-      meta = readResultsMeta(await readTableSchema(file));
+      schema = await readTableSchema(file);
     } catch (err) {
       throw new InputError(`merge: ${file} is not a meltsweep results file (${err instanceof Error ? err.message : String(err)})`);
+    }
+    try {
+      meta = readResultsMeta(schema, file);
+    } catch (err) {
+      // the metadata check names the file, the key and the problem
+      if (err instanceof InputError) throw new InputError(err.problems.map((p) => `merge: ${p}`));
+      throw err;
     }
     infos.push({ file, meta });
   }

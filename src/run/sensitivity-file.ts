@@ -121,7 +121,7 @@ async function outputsWithValues(file: string, names: readonly string[]): Promis
 }
 
 export async function analyzeResultsFile(file: string, options: SensitivityFileOptions = {}): Promise<SensitivityReport> {
-  const meta = readResultsMeta(await readTableSchema(file));
+  const meta = readResultsMeta(await readTableSchema(file), file);
   if (meta.rowStart !== 0 || meta.rowEnd !== meta.pointCount) {
     throw new InputError(
       `${file}: holds rows ${meta.rowStart}-${meta.rowEnd} of ${meta.pointCount} (shard ${meta.shard}); sensitivity needs the whole sweep: merge the shards first (meltsweep merge)`,

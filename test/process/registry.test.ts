@@ -5,7 +5,7 @@ import { readResultsMeta, resultsSchema, tableFieldsOf, META } from '../../src/i
 import { DEFAULT_PARAMS } from '../../src/physics/params.js';
 import { COLUMN_STATUSES } from '../../src/physics/types.js';
 import { DEFAULT_PROCESS, PROCESSES, processNamed, processNames } from '../../src/process/registry.js';
-import { validateSweep } from '../../src/spec/index.js';
+import { sweepHash, validateSweep } from '../../src/spec/index.js';
 
 const problemsOf = (raw: unknown): readonly string[] => {
   try {
@@ -91,7 +91,7 @@ describe('process of a sweep', () => {
     const spec = validateSweep({ axes: { tp_c: { values: [1300] } } });
     const fields = tableFieldsOf(spec);
     const schema = resultsSchema({
-      ...fields, sweepJson: JSON.stringify(spec), sweepHash: 'h', toolVersion: 't', params: DEFAULT_PARAMS,
+      ...fields, sweepJson: JSON.stringify(spec), sweepHash: sweepHash(spec), toolVersion: 't', params: DEFAULT_PARAMS,
       pointCount: 1, rowStart: 0, rowEnd: 1, shard: '1/1', blockLabels: null,
     });
     expect(schema.metadata.get(META.process)).toBe('decompression');

@@ -37,7 +37,7 @@ describe('meltsweep plot column', () => {
     expect(r.status).toBe(2);
     expect(r.stderr).toContain('--tp: "abc" is not a number; allowed 1100-1800 degC');
     expect(r.stderr).toContain("--lid: -5 is below the model's range 0-200 km");
-    expect(r.stderr).toContain('--mode: "wet" is not allowed; choose one of batch, fractional');
+    expect(r.stderr).toContain('--mode: "wet" is not a water mode; allowed: batch, fractional');
     expect(r.stderr).toContain('-o: ');
     expect(r.stderr).toContain('give a file name ending in .svg, .png or .pdf');
     expect(r.stderr).toContain('--dpi: "5" is not allowed');

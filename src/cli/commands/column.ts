@@ -8,55 +8,15 @@ import type { Command } from 'commander';
 import fs from 'node:fs';
 import { InputError, RunError, EXIT_RUN_FAILED } from '../../errors.js';
 import { REASON_FIELD, STATUS_FIELD, type FieldInfo } from '../../physics/fields.js';
-import { checkRangeValue, formatRange, STEP_GPA_RANGE, type InputRange } from '../../physics/ranges.js';
+import { formatRange } from '../../physics/ranges.js';
+import { flagOfModelProblem, MODEL_FLAG_HELP, modelFromFlags, optionKey, parseRanged } from '../model-flags.js';
 import { allProcesses, DEFAULT_PROCESS, everyResultOf, processNamed } from '../../process/registry.js';
 import type { AnyProcess, InputDef, ProcessResult } from '../../process/types.js';
-import { TOLERANCE_DEFAULT, TOLERANCE_MAX, TOLERANCE_MIN } from '../../spec/limits.js';
 import { ProblemList } from '../../spec/problems.js';
 import type { ModelSpec } from '../../spec/types.js';
 
-/** Options that set model keys of decompression (the names they always had). */
-const MODEL_FLAGS = [
-  { flag: 'mode', key: 'water' },
-  { flag: 'thermal', key: 'thermal' },
-  { flag: 'step', key: 'step_gpa', numeric: true },
-  { flag: 'tolerance', key: 'tolerance', numeric: true },
-  { flag: 'deep-onset', key: 'deep_onset' },
-] as const;
-
-/** A model option of `column`: decompression's built-in ones, then those processes declare (ProcessModelOptions.cliFlags). */
-interface ColumnModelFlag {
-  readonly flag: string;
-  readonly key: string;
-  readonly numeric?: boolean;
-  readonly file?: boolean;
-}
-
-/** Every model option, once (the first declaration of a flag wins). */
-function modelFlags(): ColumnModelFlag[] {
-  const out: ColumnModelFlag[] = [...MODEL_FLAGS];
-  for (const p of allProcesses()) {
-    for (const f of p.model.cliFlags ?? []) if (!out.some((x) => x.flag === f.flag)) out.push({ flag: f.flag, key: f.key, file: f.kind === 'file' });
-  }
-  return out;
-}
-
 /** What commander hands the action: input flags and model flags as text, plus the fixed options. */
 type ColumnOptions = Record<string, string | boolean | undefined> & { process?: string; json?: boolean; profile?: string };
-
-/** Parse a numeric option and check it against its range; InputError names option, value and range. */
-function parseRanged(option: string, raw: string, range: InputRange): number {
-  const value = raw.trim() === '' ? Number.NaN : Number(raw);
-  if (Number.isNaN(value)) throw new InputError(`${option}: ${JSON.stringify(raw)} is not a number; allowed ${formatRange(range)}`);
-  const problem = checkRangeValue(range, value);
-  if (problem !== null) throw new InputError(`${option}: ${raw} ${problem}`);
-  return value;
-}
-
-/** commander's key of a --flag ("slab-depth" -> "slabDepth"). */
-function optionKey(flag: string): string {
-  return flag.replace(/-([a-z])/g, (_, c: string) => c.toUpperCase());
-}
 
 /** Every input flag of every process, once (processes share flags such as --tp). */
 function allInputFlags(): InputDef[] {
@@ -68,38 +28,8 @@ function allInputFlags(): InputDef[] {
 /** The process, its inputs by name and its model section that a set of column options describes. @throws InputError */
 export function columnInputs(o: ColumnOptions): { process: AnyProcess; inputs: Record<string, number>; model: ModelSpec } {
   const process = processNamed(o.process ?? DEFAULT_PROCESS, '--process');
-  const problems: string[] = [];
-  // the model section from the model flags, validated by the process (its messages name model keys)
-  const section: Record<string, unknown> = {};
-  for (const m of modelFlags()) {
-    const raw = o[optionKey(m.flag)];
-    if (typeof raw !== 'string') continue;
-    if (!process.model.keys.includes(m.key)) {
-      problems.push(`--${m.flag}: process ${process.name} has no option ${m.key}; its options: ${process.model.keys.join(', ')}`);
-      continue;
-    }
-    section[m.key] = m.numeric === true ? Number(raw) : m.file === true ? { file: raw } : raw;
-  }
-  // --step allows finer steps than a sweep file (STEP_GPA_RANGE): checked here, set after validation
-  let step: number | undefined;
-  if ('step_gpa' in section) {
-    delete section.step_gpa;
-    if ('tolerance' in section) {
-      problems.push(`--tolerance: ${String(o.tolerance)} given together with --step ${String(o.step)}; give one: --step for a fixed pressure step, or --tolerance for error-controlled steps`);
-      delete section.tolerance;
-    }
-    try {
-      step = parseRanged('--step', o.step as string, STEP_GPA_RANGE);
-    } catch (err) {
-      if (!(err instanceof InputError)) throw err;
-      problems.push(...err.problems);
-    }
-  }
-  const modelProblems = new ProblemList();
-  const validated = process.model.validate(section, modelProblems);
-  // a fixed step replaces the (default) tolerance
-  const model = validated !== undefined && step !== undefined ? withFixedStep(validated, step) : validated;
-  problems.push(...modelProblems.list().map(flagOfModelProblem));
+  // the model section from the model flags, validated by the process (its messages name the flags)
+  const { model, problems } = modelFromFlags(process, o);
   const inputs: Record<string, number> = {};
   const modelOrDefaults = model ?? { ...process.model.defaults, params: {} };
   const own = process.inputsFor(modelOrDefaults);
@@ -134,24 +64,6 @@ export function columnInputs(o: ColumnOptions): { process: AnyProcess; inputs: R
   }
   if (problems.length > 0 || model === undefined) throw new InputError(problems);
   return { process, inputs, model };
-}
-
-/** The model section with step_gpa set and tolerance removed. */
-function withFixedStep(model: ModelSpec, stepGpa: number): ModelSpec {
-  const out: Record<string, unknown> = {};
-  for (const [k, v] of Object.entries(model)) if (k !== 'tolerance') out[k] = v;
-  out.step_gpa = stepGpa;
-  return out as ModelSpec;
-}
-
-/** "model.thermal: ..." -> "--thermal: ..." for model keys that have a flag here. */
-function flagOfModelProblem(message: string): string {
-  for (const m of modelFlags()) {
-    for (const prefix of m.file === true ? [`model.${m.key}.file`, `model.${m.key}`] : [`model.${m.key}`]) {
-      if (message.startsWith(`${prefix}:`)) return `--${m.flag}${message.slice(prefix.length)}`;
-    }
-  }
-  return message;
 }
 
 /** The result fields of a row: the process's results, then the optional ones the row carries. */
@@ -235,11 +147,11 @@ export function registerColumn(program: Command): void {
     .option('--process <name>', `melting process: ${allProcesses().map((p) => p.name).join(', ')}`, DEFAULT_PROCESS);
   for (const input of allInputFlags()) cmd.option(`--${input.cliFlag} <${input.unit}>`, inputHelp(input));
   cmd
-    .option('--mode <mode>', 'water mode: batch or fractional (default batch) [process decompression]')
-    .option('--thermal <model>', 'thermal model: isentropic, conductive, auto (default auto: conductive with --upwelling, else isentropic) [process decompression]')
-    .option('--step <GPa>', `isentropic column: a fixed pressure step (${formatRange(STEP_GPA_RANGE)}) instead of error control [process decompression]`)
-    .option('--tolerance <rel>', `isentropic column: relative tolerance of the error-controlled steps (${TOLERANCE_MIN}-${TOLERANCE_MAX}, default ${TOLERANCE_DEFAULT}) [process decompression]`)
-    .option('--deep-onset <mode>', 'onset deeper than 8 GPa: drop (status onset_beyond_range, default) or cap (computed from 8 GPa up, marked onset_capped) [process decompression]');
+    .option('--mode <mode>', `${MODEL_FLAG_HELP.mode} [process decompression]`)
+    .option('--thermal <model>', `${MODEL_FLAG_HELP.thermal} [process decompression]`)
+    .option('--step <GPa>', `${MODEL_FLAG_HELP.step} [process decompression]`)
+    .option('--tolerance <rel>', `${MODEL_FLAG_HELP.tolerance} [process decompression]`)
+    .option('--deep-onset <mode>', `${MODEL_FLAG_HELP.deepOnset} [process decompression]`);
   for (const p of allProcesses()) for (const f of p.model.cliFlags ?? []) if (!cmd.options.some((x) => x.long === `--${f.flag}`)) cmd.option(`--${f.flag} <${f.placeholder}>`, f.description);
   cmd
     .option('--json', 'print one JSON object: status, reason, every numeric result field (null where not applicable), then the inputs and model options it ran with')

@@ -10,15 +10,16 @@ import { InputError } from '../../errors.js';
 import { writeFileAtomic } from '../../io/ipc-file.js';
 import { defaultModel } from '../../physics/column.js';
 import type { InputName } from '../../physics/fields.js';
-import { checkRangeValue, formatRange, INPUT_RANGES, STEP_GPA_RANGE, TOLERANCE_RANGE, type InputRange } from '../../physics/ranges.js';
-import { TOLERANCE_DEFAULT as TOLERANCE_RANGE_DEFAULT } from '../../spec/limits.js';
-import type { ModelOptions, Scenario, ThermalModel, WaterMode } from '../../physics/types.js';
+import { checkRangeValue, formatRange, INPUT_RANGES, type InputRange } from '../../physics/ranges.js';
+import type { ModelOptions, Scenario } from '../../physics/types.js';
+import { DEFAULT_PROCESS, processNamed } from '../../process/registry.js';
+import type { DecompressionModelSpec } from '../../spec/validate-model.js';
+import { TOLERANCE_DEFAULT } from '../../spec/limits.js';
+import { MODEL_FLAG_HELP, modelFromFlags } from '../model-flags.js';
 import { MAX_DIAGRAM_SCENARIOS } from '../../report/theme.js';
 import { addFigureSizeOptions, checkOutputFile, figureOutput } from '../figure-output.js';
 import { registerPlotMap } from './plot-map.js';
 
-const WATER_MODES: readonly WaterMode[] = ['batch', 'fractional'];
-const THERMAL_CHOICES: readonly (ThermalModel | 'auto')[] = ['auto', 'isentropic', 'conductive'];
 
 interface PlotColumnOptions {
   tp: string;
@@ -29,6 +30,7 @@ interface PlotColumnOptions {
   mode: string;
   step?: string;
   tolerance?: string;
+  deepOnset?: string;
   title?: string;
   output: string;
   width?: string;
@@ -56,11 +58,6 @@ export function parseNumberList(option: string, raw: string, range: InputRange):
   return [...new Set(values)];
 }
 
-function parseChoice<T extends string>(option: string, raw: string, choices: readonly T[]): T {
-  if ((choices as readonly string[]).includes(raw)) return raw as T;
-  throw new InputError(`${option}: ${JSON.stringify(raw)} is not allowed; choose one of ${choices.join(', ')}`);
-}
-
 /** The scenarios (cartesian product of the lists) and the model of a `plot column` call. @throws InputError */
 export function plotColumnInputs(o: PlotColumnOptions): { scenarios: Scenario[]; model: ModelOptions } {
   const problems: string[] = [];
@@ -79,22 +76,12 @@ export function plotColumnInputs(o: PlotColumnOptions): { scenarios: Scenario[];
   const waters = list('--water', o.water, 'water_ppm');
   const lids = list('--lid', o.lid, 'lid_km');
   const ups = list('--upwelling', o.upwelling, 'upwelling_mm_yr');
-  const thermal = attempt(() => parseChoice('--thermal', o.thermal, THERMAL_CHOICES), 'auto' as ThermalModel | 'auto');
-  const mode = attempt(() => parseChoice('--mode', o.mode, WATER_MODES), 'batch' as WaterMode);
-  const ranged = (option: string, raw: string | undefined, range: InputRange): number | undefined =>
-    raw === undefined
-      ? undefined
-      : attempt(() => {
-          const v = Number(raw);
-          const problem = raw.trim() === '' ? 'is not a number' : checkRangeValue(range, v);
-          if (problem !== null) throw new InputError(`${option}: ${raw} ${problem}${problem === 'is not a number' ? `; allowed ${formatRange(range)}` : ''}`);
-          return v;
-        }, undefined);
-  const step = ranged('--step', o.step, STEP_GPA_RANGE);
-  const tolerance = ranged('--tolerance', o.tolerance, TOLERANCE_RANGE);
-  if (o.step !== undefined && o.tolerance !== undefined) {
-    problems.push(`--tolerance: ${o.tolerance} given together with --step ${o.step}; give one: --step for a fixed pressure step, or --tolerance for error-controlled steps`);
-  }
+  // the model flags, read and checked as `column` reads them (src/cli/model-flags.ts)
+  const flags = modelFromFlags(processNamed(DEFAULT_PROCESS), o as unknown as Record<string, unknown>);
+  problems.push(...flags.problems);
+  const spec = flags.model as DecompressionModelSpec | undefined;
+  const thermal = spec?.thermal ?? 'auto';
+  const mode = spec?.water ?? 'batch';
   if (thermal === 'conductive' && o.upwelling === undefined) problems.push('--thermal conductive needs an upwelling rate: give --upwelling <mm/yr>');
   const conductive = thermal === 'conductive' || (thermal === 'auto' && o.upwelling !== undefined);
   if (mode === 'fractional' && conductive) {
@@ -110,8 +97,7 @@ export function plotColumnInputs(o: PlotColumnOptions): { scenarios: Scenario[];
   if (problems.length > 0) throw new InputError(problems);
   const scenarios: Scenario[] = [];
   for (const tp_c of tps) for (const water_ppm of waters) for (const lid_km of lids) for (const upwelling_mm_yr of ups) scenarios.push({ tp_c, water_ppm, lid_km, upwelling_mm_yr });
-  const accuracy = step !== undefined ? { stepGpa: step } : tolerance !== undefined ? { tolerance } : {};
-  return { scenarios, model: defaultModel({ thermal, water: mode, ...accuracy }) };
+  return { scenarios, model: defaultModel({ thermal, water: mode, ...(spec?.step_gpa !== undefined ? { stepGpa: spec.step_gpa } : { tolerance: spec?.tolerance ?? TOLERANCE_DEFAULT }), deepOnset: spec?.deep_onset ?? 'drop' }) };
 }
 
 /** Register `meltsweep plot` and its `column` subcommand. */
@@ -127,10 +113,11 @@ export function registerPlot(program: Command): void {
     .option('--water <list>', `bulk water of the source (${formatRange(INPUT_RANGES.water_ppm)})`, '0')
     .option('--lid <list>', `lid thickness(es) (${formatRange(INPUT_RANGES.lid_km)})`, '0')
     .option('--upwelling <list>', `solid upwelling rate(s) (${formatRange(INPUT_RANGES.upwelling_mm_yr)}); selects the conductive model under --thermal auto`)
-    .option('--thermal <model>', `thermal model: ${THERMAL_CHOICES.join(', ')} (auto: conductive with --upwelling, else isentropic)`, 'auto')
-    .option('--mode <mode>', `water mode: ${WATER_MODES.join(' or ')}`, 'batch')
-    .option('--step <GPa>', `isentropic column: a fixed pressure step (${formatRange(STEP_GPA_RANGE)}) instead of error control`)
-    .option('--tolerance <rel>', `isentropic column: relative tolerance of the error-controlled steps (${formatRange(TOLERANCE_RANGE)}, default ${TOLERANCE_RANGE_DEFAULT})`)
+    .option('--thermal <model>', MODEL_FLAG_HELP.thermal, 'auto')
+    .option('--mode <mode>', MODEL_FLAG_HELP.mode, 'batch')
+    .option('--step <GPa>', MODEL_FLAG_HELP.step)
+    .option('--tolerance <rel>', MODEL_FLAG_HELP.tolerance)
+    .option('--deep-onset <mode>', MODEL_FLAG_HELP.deepOnset)
     .option('--title <text>', 'title above the diagram (default "Melting column")')
     .requiredOption('-o, --output <file>', 'the file to write: .svg, .png or .pdf (text as outlines of the bundled font)');
   addFigureSizeOptions(column).action(async (o: PlotColumnOptions) => {

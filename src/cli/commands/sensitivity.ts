@@ -12,7 +12,7 @@ export async function summarizeResults(
   o: { outputs?: string[]; resamples?: number; seed?: number; output?: string; capped?: CappedChoice } = {},
 ): Promise<string> {
   const report = await analyzeResultsFile(file, o);
-  const meta = readResultsMeta(await readTableSchema(file));
+  const meta = readResultsMeta(await readTableSchema(file), file);
   const out = o.output ?? sensitivityPathFor(file);
   writeSensitivityTable(report, out, { 'meltsweep.source': file, 'meltsweep.sweep_hash': meta.sweepHash });
   return `${formatSensitivitySummary(report)}\nsensitivity table: ${out}`;
@@ -20,7 +20,7 @@ export async function summarizeResults(
 
 /** The summary step after `meltsweep run`: skipped with a note for shards and very large tables. */
 export async function summaryAfterRun(file: string): Promise<string> {
-  const meta = readResultsMeta(await readTableSchema(file));
+  const meta = readResultsMeta(await readTableSchema(file), file);
   if (meta.rowStart !== 0 || meta.rowEnd !== meta.pointCount) {
     return 'sensitivity: skipped for a shard (merge the shards, then run meltsweep sensitivity on the merged file)';
   }
