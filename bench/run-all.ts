@@ -11,6 +11,7 @@ import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { benchColumn } from './column.js';
 import { benchConductive } from './conductive.js';
+import { benchFluxColumn } from './flux-column.js';
 import { benchSweep } from './sweep.js';
 import { benchWriter } from './writer.js';
 import { benchBigSweep } from './big-sweep.js';
@@ -58,6 +59,8 @@ async function main(): Promise<void> {
   log('isentropic column');
   const column = await benchColumn({ repetitions: quick ? 3 : 5 });
   const columnFixed = await benchColumn({ repetitions: quick ? 3 : 5, stepGpa: 0.05 });
+  log('flux column');
+  const flux = await benchFluxColumn({ repetitions: quick ? 3 : 5 });
   log('conductive column');
   const conductive = await benchConductive({ repetitions: quick ? 3 : 5 });
   log('sweep scaling');
@@ -78,6 +81,8 @@ async function main(): Promise<void> {
     row(column.wall, null),
     row(columnFixed, null),
     row(conductive, 10_000),
+    row(flux, 20_000),
+    row(flux.wall, null),
     ...sweep.byWorkers.map((b) => row(b, null)),
     ...sweep.efficiency.map((e) => ({
       figure: `speed-up with ${e.workers} workers over one [x]`,
@@ -139,7 +144,7 @@ async function main(): Promise<void> {
     },
   ];
   process.stdout.write(`${printTable(rows)}\n`);
-  const results = { header, quick, cores, node: process.version, column, columnFixed, conductive, sweep, writer, baseline, big, fitCore, fitFile, efficiencyTwoWorkers: two ?? null };
+  const results = { header, quick, cores, node: process.version, column, columnFixed, conductive, flux, sweep, writer, baseline, big, fitCore, fitFile, efficiencyTwoWorkers: two ?? null };
   const out = path.join(path.dirname(fileURLToPath(import.meta.url)), '..', '..', 'bench', 'results.json');
   fs.writeFileSync(out, `${JSON.stringify(results, null, 2)}\n`);
   process.stdout.write(`results written to ${path.relative(process.cwd(), out) || out}\n`);

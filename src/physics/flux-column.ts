@@ -33,7 +33,11 @@ export interface FluxColumnOptions {
   readonly params: MeltParams;
   /** return the profile arrays along the column (0 to the slab) */
   readonly withProfile?: boolean;
-  /** relative tolerance of the melt integrals (default 1e-7) */
+  /**
+   * relative tolerance of the Gauss–Kronrod error estimate |K15 - G7| of the melt integrals (default
+   * 1e-4; the estimate bounds the Gauss result, the Kronrod result kept is far better: within 2e-5
+   * of the converged integrals over a random set of columns, see test/physics/flux-column.test.ts)
+   */
   readonly relTol?: number;
 }
 
@@ -210,7 +214,7 @@ function nullValues(status: ColumnStatus, reason: string | null, threshold: numb
  */
 export function fluxColumn(geo: Geotherm, waterPpm: number, options: FluxColumnOptions): FluxColumnResult {
   const p = options.params;
-  const relTol = options.relTol ?? 1e-7;
+  const relTol = options.relTol ?? 1e-4;
   const bulk = wtPctFromPpm(waterPpm);
   const w: Work = {
     geo, bulk, heat: options.heat, p, curves: createMeltingCurves(), state: createFluxPointState(),

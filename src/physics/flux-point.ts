@@ -121,7 +121,8 @@ export function fluxMeltAtPoint(
     u = guess;
     for (let i = 0; i < 100; i++) {
       const r = residual(u);
-      if (r === 0) break;
+      // |r| below 1e-9 K: F is within ~1e-12 (dr/dF is hundreds of K or more)
+      if (Math.abs(r) < 1e-9) break;
       if (r < 0) lo = u;
       else hi = u;
       let next = u - r / slope;

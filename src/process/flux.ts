@@ -143,4 +143,5 @@ export const flux: ProcessDefinition<FluxRuntimeModel> = {
     return `model: flux melting, geotherm ${model.tableFile === null ? 'lid-adiabat (plate + adiabat)' : `table ${model.tableFile}`}, heat ${model.heat}; ${given}`;
   },
   profile: FLUX_PROFILE_FIELDS,
+  diagram: async () => (await import('../report/flux-diagram.js')).fluxDiagram,
 };

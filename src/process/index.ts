@@ -1,5 +1,5 @@
 /** Melting processes as plug-ins: the contract, the registry and the built-in processes. */
-export type { AnyProcess, InputDef, ModelContext, ModelFlag, ProcessDefinition, ProcessModelOptions, ProcessResult, ProfileTableSampler, ResolveOptions, ResultDef } from './types.js';
+export type { AnyProcess, DiagramItem, InputDef, ModelContext, ModelFlag, ProcessDiagram, ProcessDefinition, ProcessModelOptions, ProcessResult, ProfileTableSampler, ResolveOptions, ResultDef } from './types.js';
 export {
   DEFAULT_PROCESS,
   PROCESSES,

@@ -9,6 +9,7 @@ import type { ColumnStatus } from '../physics/types.js';
 import type { ProfileSamples } from '../run/profile-sampling.js';
 import type { ProblemList } from '../spec/problems.js';
 import type { ModelSpec } from '../spec/types.js';
+import type { FigureLayout } from '../report/figure.js';
 
 /**
  * One scenario input of a process: a float64 column of the results table. Also an allowed range
@@ -149,6 +150,30 @@ export interface ProcessDefinition<M = unknown> {
    * (`run --profiles`); absent: the process writes no profile table.
    */
   readonly profileTable?: ProfileTableSampler<M>;
+  /**
+   * Optional: the picture of a few scenarios of this process (`plot column --process NAME`, the
+   * report's representative columns). A loader, so the plotting libraries load only when drawn.
+   * Absent: decompression's column diagram for decompression, no picture for other processes.
+   */
+  readonly diagram?: () => Promise<ProcessDiagram<M>>;
+}
+
+/** One scenario of a process diagram: its inputs by name and an optional key label. */
+export interface DiagramItem {
+  readonly inputs: Readonly<Record<string, number>>;
+  readonly label?: string;
+}
+
+/** A process's diagram (see ProcessDefinition.diagram). */
+export interface ProcessDiagram<M> {
+  /** the result field by which the report picks its representative scenarios (smallest, median, largest) */
+  readonly representativeOutput: string;
+  /** lay out the figure of up to MAX_DIAGRAM_SCENARIOS scenarios; notes: what could not be drawn */
+  figure(
+    items: readonly DiagramItem[],
+    model: M,
+    options: { readonly title?: string; readonly subtitle?: string | readonly string[] },
+  ): { readonly layout: FigureLayout; readonly notes: readonly string[] };
 }
 
 /** Sampling of computed columns onto the profile-table grid (see src/run/profile-sampling.ts). */

@@ -11,7 +11,7 @@ import { InputError } from '../errors.js';
 import { writeFileAtomic } from '../io/ipc-file.js';
 import { defaultModel } from '../physics/column.js';
 import type { ModelOptions } from '../physics/types.js';
-import { DEFAULT_PROCESS } from '../process/registry.js';
+import { DEFAULT_PROCESS, processNamed } from '../process/registry.js';
 import type { DecompressionModelSpec } from '../spec/validate-model.js';
 import { analyzeResultsFile } from '../run/sensitivity-file.js';
 import { cappedNote } from '../run/capped-rows.js';
@@ -149,10 +149,32 @@ export async function buildHtmlReport(file: string, options: ReportOptions = {})
       }));
       const data = columnDiagramData(items, sweepModel(spec.model as DecompressionModelSpec, meta.params));
       const plot = columnDiagramLayout(data, { title: `Representative columns: smallest, median and largest ${labelOf(repOutput)}`, subtitle: `among the ok rows of ${spec.name}` });
-      const wet = data.wetWaters.length > 0 ? ' Near the surface each wet solidus bends back to the dry one: the water the melt can hold falls to zero as pressure goes to zero, so the last kilometres melt as if dry. This is the model, not a glitch.' : '';
+      const wet = data.wetWaters.length > 0 ? ' Near the surface each wet solidus bends back to the dry one: the water the melt can hold falls to zero as pressure goes to zero, so the last kilometres melt as if dry.' : '';
       columns.push(await figure('column', repOutput, plot, `Temperature and melt fraction against depth for the ok rows with the smallest, median and largest ${repOutput}. The key below the diagram explains the marks.${wet}`));
     } else {
       notes.push(`no ok row has a value of ${repOutput}: no representative columns`);
+    }
+  } else if (meta.process !== DEFAULT_PROCESS) {
+    // another process brings its own picture (ProcessDefinition.diagram), read from the registry
+    const proc = processNamed(meta.process);
+    const diagram = proc.diagram === undefined ? undefined : await proc.diagram();
+    const byOutput = diagram === undefined ? undefined : opts.outputs.includes(diagram.representativeOutput) ? diagram.representativeOutput : opts.outputs[0];
+    if (diagram !== undefined && byOutput !== undefined) {
+      const picks = representativeRows(table, byOutput);
+      if (picks.length > 0) {
+        const items = picks.map((p) => ({
+          inputs: Object.fromEntries(meta.inputs.map((i) => [i.name, table.inputs[i.name][p.row]])),
+          label: `${WHICH[p.which]} ${labelOf(byOutput)} ${valueWithUnit(byOutput, table.outputs[byOutput][p.row])}`,
+        }));
+        const fig = diagram.figure(items, proc.resolveModel(spec.model, { withProfile: true }), {
+          title: `Representative columns: smallest, median and largest ${labelOf(byOutput)}`,
+          subtitle: `among the ok rows of ${spec.name}`,
+        });
+        notes.push(...fig.notes);
+        columns.push(await figure('column', byOutput, fig.layout, `The ${proc.title} for the ok rows with the smallest, median and largest ${byOutput}. The key below the diagram explains the marks.`));
+      } else {
+        notes.push(`no ok row has a value of ${byOutput}: no representative columns`);
+      }
     }
   }
 

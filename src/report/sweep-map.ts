@@ -5,6 +5,7 @@
  *   (geometric half-way on log axes);
  * - other designs: the samples binned onto a regular 2D grid over the two inputs' ranges, each
  *   cell the mean of the finite values in it (every other input varies inside a cell).
+ * The picture of a map is map-figure.ts; its contours are map-contours.ts.
  */
 import type { AxisSpec, SweepSpec } from '../spec/types.js';
 import { fixedValueLabel } from './labels.js';

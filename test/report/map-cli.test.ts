@@ -128,7 +128,8 @@ describe('meltsweep report --contour and --figures', () => {
     expect(again.stderr).toContain(`--figures: ${figs} already holds 12 figure files (01-map-crust_km.pdf, ...); give --force to replace them`);
     expect(fs.statSync(path.join(figs, '01-map-crust_km.png')).mtimeMs).toBe(before);
     expect(runCliSync([...args, '--force']).status).toBe(0);
-  });
+    // three report runs with 12 exports each: minutes on a loaded 2-core machine
+  }, 300_000);
 
   it('checks --contour, --width and --figures with clear messages', () => {
     const html = path.join(dir, 'bad.html');
@@ -145,5 +146,5 @@ describe('meltsweep report --contour and --figures', () => {
       expect(r.stderr).toContain(message);
     }
     expect(fs.existsSync(html)).toBe(false);
-  });
+  }, 300_000);
 });

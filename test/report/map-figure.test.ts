@@ -5,6 +5,9 @@
  * mark is checked inside its frame by parsing the SVG.
  */
 import { describe, expect, it } from 'vitest';
+import { fileURLToPath, pathToFileURL } from 'node:url';
+import { registerProcess } from '../../src/process/registry.js';
+import type { ProcessDefinition } from '../../src/process/types.js';
 import { COLUMN_STATUSES } from '../../src/physics/types.js';
 import { contourLevels, contourSegments, joinSegments } from '../../src/report/map-contours.js';
 import { cellLabel, labelsFitEveryCell, logTicks, MAP_MARKS, mapContourLines, sweepMapSpec } from '../../src/report/map-figure.js';
@@ -216,5 +219,36 @@ describe('contours', () => {
     const li = ((label.x - label.frame[0]) / width) * 5 - 0.5;
     const lj = ((label.frame[3] - label.y) / height) * 5 - 0.5;
     expect(Math.abs(li + lj - 3.5)).toBeLessThan(0.07);
+  });
+});
+
+describe('maps of another process', () => {
+  it('draws any registered process\'s output with nulls (the test process: y_gap null where a < 0.25)', async () => {
+    const href = pathToFileURL(fileURLToPath(new URL('../fixtures/fake-process.mjs', import.meta.url))).href;
+    const mod = (await import(href)) as { default: ProcessDefinition<{ scale: number }> };
+    registerProcess(mod.default);
+    const a = [0.1, 0.2, 0.3, 0.6, 1];
+    const b = [0, 0.5, 1];
+    const spec = validateSweep({ name: 'fake map', axes: { a_frac: { values: a }, b_frac: { values: b } }, model: { process: 'fake' } });
+    const rows: { a: number; b: number }[] = [];
+    for (const av of a) for (const bv of b) rows.push({ a: av, b: bv });
+    const table: ResultsColumns = {
+      rows: rows.length,
+      inputs: { a_frac: Float64Array.from(rows, (r) => r.a), b_frac: Float64Array.from(rows, (r) => r.b) },
+      outputs: { y_gap: Float64Array.from(rows, (r) => (r.a < 0.25 ? NaN : r.a - 0.25)) },
+      status: Uint8Array.from(rows, (r) => (r.a < 0.25 ? 1 : 0)),
+      statusCounts: Object.fromEntries(COLUMN_STATUSES.map((s) => [s, 0])) as ResultsColumns['statusCounts'],
+    };
+    const map = gridSliceMap(table, spec, 'y_gap', 'a_frac', 'b_frac');
+    expect(map.cells.filter((c) => c.value === null)).toHaveLength(6);
+    const r = await renderSvg(sweepMapSpec(map, { contours: [0.2] }));
+    expect(r.warnings).toEqual([]);
+    expect(pointsOutsideFrame(r.svg, ALL_MARKS)).toEqual([]);
+    expect(r.svg).toContain('no value in 6 of 15 cells');
+    // labels from the process's own registry entries
+    expect(axisLabels(r.svg, 'Input a')).toEqual(['0.1', '0.2', '0.3', '0.6', '1']);
+    // y_gap = a - 0.25 does not depend on b: the 0.2 contour is the vertical line a = 0.45
+    const [c] = mapContourLines(map, [0.2]);
+    for (const [x] of c.lines[0]) expect(x).toBeCloseTo(0.45, 12);
   });
 });
