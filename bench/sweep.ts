@@ -32,6 +32,11 @@ export interface SweepBenchResult {
   readonly byWorkers: ReadonlyArray<BenchResult & { readonly workers: number }>;
   /** median over paired repetitions of rate(w) / rate(1), and that divided by w, for each w > 1 */
   readonly efficiency: ReadonlyArray<{ readonly workers: number; readonly speedup: number; readonly efficiency: number }>;
+  /**
+   * main thread's busy time per row with one worker, microseconds: event-loop active time
+   * (performance.eventLoopUtilization of the main thread; the workers are other threads) over rows
+   */
+  readonly mainThreadUsPerRow: BenchResult;
 }
 
 /**
@@ -44,12 +49,15 @@ export async function benchSweep(points = 200_000, repetitions = 3): Promise<Swe
   const cores = os.availableParallelism();
   const counts = [...new Set([1, 2, cores])].filter((w) => w <= Math.max(2, cores));
   const rates = new Map<number, number[]>(counts.map((w) => [w, []]));
+  const mainUs: number[] = [];
   let rows = 0;
   try {
     for (let rep = 0; rep < repetitions; rep++) {
       for (const workers of counts) {
         const out = path.join(dir, `w${workers}-${rep}.arrow`);
+        const elu0 = performance.eventLoopUtilization();
         const s = await runSweep({ spec, outPath: out, workers, force: true });
+        if (workers === 1) mainUs.push((performance.eventLoopUtilization(elu0).active * 1000) / s.rows);
         rows = s.rows;
         rates.get(workers)!.push(s.rows / s.seconds);
         fs.rmSync(out, { force: true });
@@ -67,13 +75,14 @@ export async function benchSweep(points = 200_000, repetitions = 3): Promise<Swe
     const speedup = median(rates.get(workers)!.map((r, i) => r / one[i]));
     return { workers, speedup, efficiency: speedup / workers };
   });
-  return { points: rows, byWorkers, efficiency };
+  return { points: rows, byWorkers, efficiency, mainThreadUsPerRow: summarise('main thread busy time per row, 1 worker', 'us/row', mainUs) };
 }
 
 if (isMain(import.meta.url)) {
   const r = await benchSweep(Number(process.argv[2] ?? 200_000));
   process.stdout.write(`sweep of ${r.points.toLocaleString('en-US')} isentropic columns\n`);
   for (const b of r.byWorkers) process.stdout.write(`${formatBench(b)}\n`);
+  process.stdout.write(`main thread: ${r.mainThreadUsPerRow.median.toFixed(3)} us per row (${r.mainThreadUsPerRow.min.toFixed(3)}-${r.mainThreadUsPerRow.max.toFixed(3)})\n`);
   for (const e of r.efficiency) {
     process.stdout.write(`${e.workers} workers: speed-up ${e.speedup.toFixed(2)}x over one, parallel efficiency ${(100 * e.efficiency).toFixed(0)} %\n`);
   }

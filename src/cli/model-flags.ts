@@ -7,6 +7,7 @@ import { InputError } from '../errors.js';
 import { checkRangeValue, formatRange, STEP_GPA_RANGE, type InputRange } from '../physics/ranges.js';
 import { allProcesses } from '../process/registry.js';
 import type { AnyProcess } from '../process/types.js';
+import { TOLERANCE_DEFAULT, TOLERANCE_MAX, TOLERANCE_MIN } from '../spec/limits.js';
 import { ProblemList } from '../spec/problems.js';
 import type { ModelSpec } from '../spec/types.js';
 
@@ -15,6 +16,7 @@ export const MODEL_FLAGS = [
   { flag: 'mode', key: 'water' },
   { flag: 'thermal', key: 'thermal' },
   { flag: 'step', key: 'step_gpa', numeric: true },
+  { flag: 'tolerance', key: 'tolerance', numeric: true },
   { flag: 'deep-onset', key: 'deep_onset' },
 ] as const;
 
@@ -40,7 +42,8 @@ export function modelFlags(): ModelFlag[] {
 export const MODEL_FLAG_HELP = {
   mode: 'water mode: batch or fractional (default batch)',
   thermal: 'thermal model: isentropic, conductive, auto (default auto: conductive with --upwelling, else isentropic)',
-  step: `isentropic pressure step (${formatRange(STEP_GPA_RANGE)}, default 0.05)`,
+  step: `isentropic column: a fixed pressure step (${formatRange(STEP_GPA_RANGE)}) instead of error control`,
+  tolerance: `isentropic column: relative tolerance of the error-controlled steps (${TOLERANCE_MIN}-${TOLERANCE_MAX}, default ${TOLERANCE_DEFAULT})`,
   deepOnset: 'onset deeper than 8 GPa: drop (status onset_beyond_range, default) or cap (computed from 8 GPa up, marked onset_capped)',
 } as const;
 
@@ -56,6 +59,14 @@ export function parseRanged(option: string, raw: string, range: InputRange): num
   const problem = checkRangeValue(range, value);
   if (problem !== null) throw new InputError(`${option}: ${raw} ${problem}`);
   return value;
+}
+
+/** The model section with step_gpa set and tolerance removed. */
+function withFixedStep(model: ModelSpec, stepGpa: number): ModelSpec {
+  const out: Record<string, unknown> = {};
+  for (const [k, v] of Object.entries(model)) if (k !== 'tolerance') out[k] = v;
+  out.step_gpa = stepGpa;
+  return out as ModelSpec;
 }
 
 /** "model.thermal: ..." -> "--thermal: ..." for model keys that have a flag. */
@@ -88,6 +99,10 @@ export function modelFromFlags(process: AnyProcess, o: Readonly<Record<string, u
   let step: number | undefined;
   if ('step_gpa' in section) {
     delete section.step_gpa;
+    if ('tolerance' in section) {
+      problems.push(`--tolerance: ${String(o.tolerance)} given together with --step ${String(o.step)}; give one: --step for a fixed pressure step, or --tolerance for error-controlled steps`);
+      delete section.tolerance;
+    }
     try {
       step = parseRanged('--step', o.step as string, STEP_GPA_RANGE);
     } catch (err) {
@@ -98,6 +113,7 @@ export function modelFromFlags(process: AnyProcess, o: Readonly<Record<string, u
   const modelProblems = new ProblemList();
   const validated = process.model.validate(section, modelProblems);
   problems.push(...modelProblems.list().map(flagOfModelProblem));
-  const model = validated !== undefined && step !== undefined ? { ...validated, step_gpa: step } : validated;
+  // a fixed step replaces the (default) tolerance
+  const model = validated !== undefined && step !== undefined ? withFixedStep(validated, step) : validated;
   return { model, problems };
 }

@@ -40,47 +40,17 @@ import { setMeltingCurves, waterSaturationLowerBound, waterSaturationSlope, wate
 import { cappedStart, type PathStart } from './capped-onset.js';
 import { checkColumnInputs } from './column-inputs.js';
 import { beyondRangeReason, findMeltOnset } from './onset.js';
+import { onsetIntervalIntegral, type IsentropicPath } from './isentropic-path.js';
+import { DEFAULT_TOLERANCE, integrateIsentropicPathAdaptive, TOLERANCE_MAX, TOLERANCE_MIN } from './isentropic-adaptive.js';
 import type { MeltParams } from './params.js';
 import { failedResult, meltingResult, noMeltResult, onsetBeyondRangeResult } from './column-result.js';
 import { MODEL_MAX_P_GPA, type ColumnProfile, type ColumnResult, type ModelOptions, type Scenario, type WaterMode } from './types.js';
 import { depthKmFromPGpa, KELVIN_OFFSET, PA_PER_GPA, pGpaFromDepthKm, wtPctFromPpm } from './units.js';
 
-/** Default isentropic pressure step, GPa. */
+export type { IsentropicPath } from './isentropic-path.js';
+
+/** Default isentropic pressure step, GPa (used when a step is asked for without a value). */
 export const DEFAULT_STEP_GPA = 0.05;
-
-/** The melting path from onset to top, with the integrals the column aggregates need. */
-export interface IsentropicPath {
-  /** number of pressure steps taken */
-  readonly steps: number;
-  /** melt fraction at the top */
-  readonly fTop: number;
-  /** largest melt fraction on the path (equal to fTop: F never decreases) */
-  readonly fMax: number;
-  /** temperature at the top, degC */
-  readonly tTopC: number;
-  /** int F dP from top to onset (trapezoid on the step points), GPa */
-  readonly meltIntegralGpa: number;
-  /** int W dP, W = water carried by the melt per unit mass of source, wt% GPa */
-  readonly waterIntegralWtPctGpa: number;
-  /** water carried by the melt per unit mass of source at the top, wt% */
-  readonly waterExtractedWtPct: number;
-  /** water left in the residue at the top, wt% of the residue */
-  readonly residueWaterWtPct: number;
-  /** present when requested: the path from onset (index 0) to top */
-  readonly profile?: ColumnProfile;
-}
-
-/**
- * int_0^h y dDelta for y = a Delta^m + b Delta^n (m = beta1, n = 2 beta1 - 1) with y(h) = yEnd and
- * dy/dDelta(h) = slopeEnd: exact for the two leading terms of the melt fraction above the onset.
- */
-function onsetIntervalIntegral(yEnd: number, slopeEnd: number, h: number, beta1: number): number {
-  const m = beta1;
-  const n = 2 * beta1 - 1;
-  const bTerm = (slopeEnd * h - m * yEnd) / (n - m);
-  const aTerm = yEnd - bTerm;
-  return h * (aTerm / (m + 1) + bTerm / (n + 1));
-}
 
 /**
  * Integrate the isentropic melting path from the onset pressure (F = 0, T on the solid adiabat) up
@@ -278,7 +248,8 @@ export function integrateIsentropicPath(
  *
  * @param scenario tp_c (degC), water_ppm (ppm), lid_km (km), upwelling_mm_yr (mm/yr or NaN;
  *   used only for melt_flux_kg_m2_yr)
- * @param model water mode, parameters, stepGpa (default 0.05 GPa), withProfile
+ * @param model water mode, parameters, stepGpa (fixed step, GPa) or else tolerance (relative, default
+ *   1e-4, error-controlled: isentropic-adaptive.ts), withProfile
  */
 export function isentropicColumn(scenario: Scenario, model: ModelOptions): ColumnResult {
   try {
@@ -287,8 +258,13 @@ export function isentropicColumn(scenario: Scenario, model: ModelOptions): Colum
     const checked = checkColumnInputs(scenario, p);
     if (!checked.ok) return failedResult(checked.reason);
     if (model.water !== 'batch' && model.water !== 'fractional') return failedResult(`unknown water mode ${String(model.water)}`);
-    const stepGpa = model.stepGpa ?? DEFAULT_STEP_GPA;
-    if (!(Number.isFinite(stepGpa) && stepGpa > 0)) return failedResult(`step must be a positive number of GPa, got ${String(stepGpa)}`);
+    // an explicit step is the fixed-step path (as before tolerances existed); else error control
+    const stepGpa = model.stepGpa;
+    if (stepGpa !== undefined && !(Number.isFinite(stepGpa) && stepGpa > 0)) return failedResult(`step must be a positive number of GPa, got ${String(stepGpa)}`);
+    const tolerance = model.tolerance ?? DEFAULT_TOLERANCE;
+    if (stepGpa === undefined && !(tolerance >= TOLERANCE_MIN && tolerance <= TOLERANCE_MAX)) {
+      return failedResult(`tolerance must be a number in ${TOLERANCE_MIN}-${TOLERANCE_MAX}, got ${String(tolerance)}`);
+    }
 
     const x0 = wtPctFromPpm(waterPpm);
     const pTop = checked.pLidGpa;
@@ -298,7 +274,10 @@ export function isentropicColumn(scenario: Scenario, model: ModelOptions): Colum
     // a capped onset starts melted at the deepest covered pressure (capped-onset.ts)
     const start = onset.kind === 'beyond' ? cappedStart(tpC, x0, onset.pMaxGpa, model.water, p) : undefined;
     const onsetPGpa = onset.kind === 'beyond' ? onset.pMaxGpa : onset.pGpa;
-    const path = integrateIsentropicPath(tpC, x0, onsetPGpa, pTop, model.water, p, stepGpa, model.withProfile === true, start);
+    const path =
+      stepGpa !== undefined
+        ? integrateIsentropicPath(tpC, x0, onsetPGpa, pTop, model.water, p, stepGpa, model.withProfile === true, start)
+        : integrateIsentropicPathAdaptive(tpC, x0, onsetPGpa, pTop, model.water, p, tolerance, model.withProfile === true, start);
     return meltingResult(
       {
         onsetPGpa,

@@ -72,6 +72,9 @@ export class IsentropicStepper {
   sat = false;
   xr = 0;
   dR = 0;
+  /** melt fraction and saturation state of the last residual evaluation */
+  fEval = 0;
+  satEval = false;
 
   constructor(
     readonly p: MeltParams,
@@ -158,6 +161,7 @@ export class IsentropicStepper {
   /** Discrete entropy residual R(f) at the new pressure (sets tK, tEff, dTdF, dep, xm, dxm, sat, xr, dR). */
   residual(f: number): number {
     const p = this.p;
+    this.fEval = f;
     const tEff = dryTempFromCurves(f, this.curves, p);
     let dTdF = dryTempSlopeFromCurves(f, tEff, this.curves, p);
     let tC = tEff;
@@ -178,6 +182,7 @@ export class IsentropicStepper {
       this.sat = false;
     }
     const tK = tC + KELVIN_OFFSET;
+    this.satEval = this.sat;
     this.tK = tK;
     this.tEff = tEff;
     this.dep = dep;
@@ -217,14 +222,15 @@ export class IsentropicStepper {
   /**
    * Solve the step whose constants are set: find F1 in [F0, fHi] with R(F1) = 0 by Newton's method
    * inside a bracket, falling back to bisection when Newton leaves it. `guess` is a predicted F1
-   * (NaN for none). Sets f1, t1K, onCurve, and leaves xm, xr, sat at F1.
+   * (NaN for none); `tolDf` the Newton correction at which F + dF is accepted (default TOL_DF).
+   * Sets f1, t1K, onCurve, and leaves xm, xr, sat at F1.
    *
    * R is increasing in F. R(F0) >= 0 means the melting curve at F0 lies above the decompressed
    * assemblage: no new melt this step (F held, the assemblage follows its own adiabat). R(fHi) < 0
    * means even the liquidus is too cold for the column's entropy: fully molten, off the curve.
    * R(F0) is evaluated only when needed: with no guess, or when Newton heads below F0.
    */
-  solveStep(guess: number, fHi: number): void {
+  solveStep(guess: number, fHi: number, tolDf: number = TOL_DF): void {
     const p = this.p;
     const f0 = this.f0;
     let lo = f0;
@@ -264,7 +270,7 @@ export class IsentropicStepper {
       }
       const d = -r / this.dR;
       const fn = f + d;
-      if (Math.abs(d) <= TOL_DF && fn >= lo && fn <= hi) return this.accept(f, d);
+      if (Math.abs(d) <= tolDf && fn >= lo && fn <= hi) return this.accept(f, d);
       if (hi - lo <= TOL_F) break;
       if (fn > lo && fn < hi) {
         f = fn;

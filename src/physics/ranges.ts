@@ -40,6 +40,15 @@ export const STEP_GPA_RANGE: InputRange = Object.freeze({
   description: 'pressure step of the isentropic column',
 });
 
+/** Allowed relative tolerance of the error-controlled isentropic column (a model option). */
+export const TOLERANCE_RANGE: InputRange = Object.freeze({
+  min: 1e-6,
+  max: 1e-2,
+  minExclusive: false,
+  unit: '(relative)',
+  description: 'relative tolerance of the isentropic column',
+});
+
 /** "1100-1800 degC", or "0-10000 mm/yr (0 excluded)" for an exclusive minimum. */
 export function formatRange(r: InputRange): string {
   return `${r.min}-${r.max} ${r.unit}${r.minExclusive ? ` (${r.min} excluded)` : ''}`;

@@ -27,8 +27,13 @@ export interface ModelOptions {
   readonly thermal: ThermalModel | 'auto';
   readonly water: WaterMode;
   readonly params: MeltParams;
-  /** isentropic pressure step, GPa (default 0.05) */
+  /**
+   * isentropic column: a fixed pressure step, GPa. When given it overrides `tolerance` and the
+   * column is integrated exactly as before tolerances existed.
+   */
   readonly stepGpa?: number;
+  /** isentropic column without stepGpa: relative tolerance of the error control (default 1e-4) */
+  readonly tolerance?: number;
   /** return the profile arrays along the column */
   readonly withProfile?: boolean;
   /**

@@ -11,7 +11,7 @@ import { COLUMN_STATUSES, type ColumnResult, type ModelOptions, type Scenario } 
 import { sampleColumnProfile } from '../run/profile-sampling.js';
 import { MODEL_KEYS, normalizeDecompressionModel, validateModel, type DecompressionModelSpec } from '../spec/validate-model.js';
 import { INPUT_DEFAULTS } from '../spec/input-defaults.js';
-import { STEP_GPA_DEFAULT } from '../spec/limits.js';
+import { TOLERANCE_DEFAULT } from '../spec/limits.js';
 import type { ModelSpec } from '../spec/types.js';
 import type { InputDef, ProcessDefinition, ProcessResult, ResultDef } from './types.js';
 
@@ -58,13 +58,14 @@ export const decompression: ProcessDefinition<ModelOptions> = {
   statuses: COLUMN_STATUSES,
   model: {
     keys: MODEL_KEYS,
-    defaults: Object.freeze({ thermal: 'auto', water: 'batch', params: {}, step_gpa: STEP_GPA_DEFAULT }),
+    defaults: Object.freeze({ thermal: 'auto', water: 'batch', params: {}, tolerance: TOLERANCE_DEFAULT }),
     validate: validateModel,
     normalize: (m: ModelSpec) => normalizeDecompressionModel(m as DecompressionModelSpec),
     summary(m) {
       const model = m as DecompressionModelSpec;
+      const accuracy = model.step_gpa !== undefined ? `step ${model.step_gpa} GPa` : `tolerance ${model.tolerance ?? TOLERANCE_DEFAULT}`;
       const deep = model.deep_onset === 'cap' ? ', onsets deeper than 8 GPa capped' : '';
-      return `thermal ${model.thermal}, water ${model.water}, step ${model.step_gpa} GPa${deep}`;
+      return `thermal ${model.thermal}, water ${model.water}, ${accuracy}${deep}`;
     },
     checkInputs(model, given, problems) {
       const m = model as DecompressionModelSpec;
@@ -86,7 +87,7 @@ export const decompression: ProcessDefinition<ModelOptions> = {
       thermal: model.thermal,
       water: model.water,
       params: resolveParams(model.params),
-      stepGpa: model.step_gpa,
+      ...(model.step_gpa !== undefined ? { stepGpa: model.step_gpa } : { tolerance: model.tolerance ?? TOLERANCE_DEFAULT }),
       withProfile: options.withProfile,
       deepOnset: model.deep_onset ?? 'drop',
     };

@@ -65,7 +65,8 @@ export function representativeRows(table: ResultsColumns, output: string): { rea
 
 /** The model a sweep's rows were computed with (parameters as stored in the file). */
 function sweepModel(model: DecompressionModelSpec, params: ModelOptions['params']): ModelOptions {
-  return defaultModel({ thermal: model.thermal, water: model.water, stepGpa: model.step_gpa, params, deepOnset: model.deep_onset ?? 'drop' });
+  const accuracy = model.step_gpa !== undefined ? { stepGpa: model.step_gpa } : model.tolerance !== undefined ? { tolerance: model.tolerance } : {};
+  return defaultModel({ thermal: model.thermal, water: model.water, ...accuracy, params, deepOnset: model.deep_onset ?? 'drop' });
 }
 
 /**

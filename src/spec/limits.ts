@@ -29,5 +29,11 @@ export const MAX_SOBOL_INDEX = 2 ** 32;
 export const STEP_GPA_MIN = 0.001;
 /** Largest allowed isentropic pressure step, GPa. */
 export const STEP_GPA_MAX = 0.5;
-/** Default isentropic pressure step, GPa. */
+/** The isentropic pressure step, GPa, of sweeps made before tolerances existed (and of --step without a value). */
 export const STEP_GPA_DEFAULT = 0.05;
+/** Smallest allowed relative tolerance of the isentropic column. */
+export const TOLERANCE_MIN = 1e-6;
+/** Largest allowed relative tolerance of the isentropic column. */
+export const TOLERANCE_MAX = 1e-2;
+/** Default relative tolerance of the isentropic column. */
+export const TOLERANCE_DEFAULT = 1e-4;

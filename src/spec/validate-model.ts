@@ -5,7 +5,7 @@
  */
 import { DEEP_ONSET_MODES, type DeepOnset } from '../physics/types.js';
 import { PARAM_NAMES, ParamError, resolveParams, type ParamName, type ParamOverrides } from '../physics/params.js';
-import { STEP_GPA_DEFAULT, STEP_GPA_MAX, STEP_GPA_MIN } from './limits.js';
+import { STEP_GPA_MAX, STEP_GPA_MIN, TOLERANCE_DEFAULT, TOLERANCE_MAX, TOLERANCE_MIN } from './limits.js';
 import { describeModelValidator, paramsSchema } from './json-schema.js';
 import { checkKeys, describeFound, isMapping, readChoice, readNumber, unknownKeyText, type ProblemList } from './problems.js';
 import type { ModelSpec } from './types.js';
@@ -16,8 +16,16 @@ export interface DecompressionModelSpec extends ModelSpec {
   readonly thermal: 'isentropic' | 'conductive' | 'auto';
   /** default 'batch' */
   readonly water: 'batch' | 'fractional';
-  /** isentropic pressure step, GPa (default 0.05, allowed 0.001-0.5) */
-  readonly step_gpa: number;
+  /**
+   * isentropic column: a fixed pressure step, GPa (allowed 0.001-0.5). Present only when the sweep
+   * file gives it; then `tolerance` is absent and the tables are those of the fixed-step integration.
+   */
+  readonly step_gpa?: number;
+  /**
+   * isentropic column: relative tolerance of the error-controlled integration (allowed 1e-6-1e-2,
+   * default 1e-4). Present exactly when step_gpa is not.
+   */
+  readonly tolerance?: number;
   /**
    * onsets deeper than the model range: 'drop' (default, not written when normalized, so older
    * sweeps keep their JSON, hash and table columns) or 'cap' (computed from 8 GPa up, marked)
@@ -26,14 +34,15 @@ export interface DecompressionModelSpec extends ModelSpec {
 }
 
 /** Keys of the `model` section. */
-export const MODEL_KEYS = ['thermal', 'water', 'params', 'step_gpa', 'deep_onset'] as const;
+export const MODEL_KEYS = ['thermal', 'water', 'params', 'step_gpa', 'tolerance', 'deep_onset'] as const;
 /** Allowed `model.thermal` values. */
 export const THERMAL_MODES: readonly DecompressionModelSpec['thermal'][] = ['isentropic', 'conductive', 'auto'];
 /** Allowed `model.water` values. */
 export const WATER_MODES: readonly DecompressionModelSpec['water'][] = ['batch', 'fractional'];
 
 /**
- * Validate `model`; absent means thermal auto, water batch, no overrides, step 0.05 GPa.
+ * Validate `model`; absent means thermal auto, water batch, no overrides, tolerance 1e-4. A sweep
+ * gives step_gpa (fixed step) or tolerance (error control), not both.
  * Carries the JSON Schema of its keys (built from the same constants) for `meltsweep schema`.
  */
 export const validateModel = describeModelValidator(validateDecompressionModel, {
@@ -48,8 +57,14 @@ export const validateModel = describeModelValidator(validateDecompressionModel, 
     type: 'number',
     minimum: STEP_GPA_MIN,
     maximum: STEP_GPA_MAX,
-    default: STEP_GPA_DEFAULT,
-    description: `pressure step of the isentropic column, GPa (${STEP_GPA_MIN}-${STEP_GPA_MAX})`,
+    description: `a fixed pressure step of the isentropic column, GPa (${STEP_GPA_MIN}-${STEP_GPA_MAX}), instead of tolerance (not both); sweeps that give it keep the tables of the fixed-step integration`,
+  },
+  tolerance: {
+    type: 'number',
+    minimum: TOLERANCE_MIN,
+    maximum: TOLERANCE_MAX,
+    default: TOLERANCE_DEFAULT,
+    description: `relative tolerance of the error-controlled isentropic column (${TOLERANCE_MIN}-${TOLERANCE_MAX}); not together with step_gpa`,
   },
   deep_onset: {
     enum: DEEP_ONSET_MODES,
@@ -68,13 +83,31 @@ function validateDecompressionModel(raw: unknown, problems: ProblemList): Decomp
   checkKeys(body, MODEL_KEYS, 'model', problems);
   const thermal = body.thermal === undefined ? 'auto' : readChoice(body.thermal, THERMAL_MODES, 'model.thermal', problems, 'a thermal model');
   const water = body.water === undefined ? 'batch' : readChoice(body.water, WATER_MODES, 'model.water', problems, 'a water mode');
-  const step = body.step_gpa === undefined ? STEP_GPA_DEFAULT : readStep(body.step_gpa, problems);
+  const step = body.step_gpa === undefined ? undefined : readStep(body.step_gpa, problems);
+  const tolerance = body.tolerance === undefined ? undefined : readTolerance(body.tolerance, problems);
+  if (body.step_gpa !== undefined && body.tolerance !== undefined) {
+    problems.add(
+      'model.tolerance',
+      `${String(body.tolerance)} given together with step_gpa ${String(body.step_gpa)}; give one: step_gpa for a fixed pressure step, or tolerance for error-controlled steps`,
+    );
+  }
   const params = body.params === undefined || body.params === null ? {} : validateParams(body.params, problems);
   const deep = body.deep_onset === undefined ? 'drop' : readChoice(body.deep_onset, DEEP_ONSET_MODES, 'model.deep_onset', problems, 'a deep-onset mode');
-  if (problems.count !== before || thermal === undefined || water === undefined || step === undefined || params === undefined || deep === undefined) {
+  if (problems.count !== before || thermal === undefined || water === undefined || params === undefined || deep === undefined) {
     return undefined;
   }
-  return deep === 'drop' ? { thermal, water, params, step_gpa: step } : { thermal, water, params, step_gpa: step, deep_onset: deep };
+  const accuracy = step !== undefined ? { step_gpa: step } : { tolerance: tolerance ?? TOLERANCE_DEFAULT };
+  return deep === 'drop' ? { thermal, water, params, ...accuracy } : { thermal, water, params, ...accuracy, deep_onset: deep };
+}
+
+function readTolerance(raw: unknown, problems: ProblemList): number | undefined {
+  const v = readNumber(raw, 'model.tolerance', problems);
+  if (v === undefined) return undefined;
+  if (!(v >= TOLERANCE_MIN && v <= TOLERANCE_MAX)) {
+    problems.add('model.tolerance', `${v} is ${v < TOLERANCE_MIN ? 'below' : 'above'} the allowed range ${TOLERANCE_MIN}-${TOLERANCE_MAX} (relative)`);
+    return undefined;
+  }
+  return v;
 }
 
 function readStep(raw: unknown, problems: ProblemList): number | undefined {
@@ -119,8 +152,11 @@ export function validateParams(raw: unknown, problems: ProblemList): ParamOverri
 
 /**
  * The canonical form of a valid decompression model section: thermal, water, params (in the
- * registry's order), step_gpa; no `process` key (the default process is not written, so specs
- * stored before processes existed keep their JSON and hash).
+ * registry's order), then step_gpa or tolerance (whichever applies), then deep_onset unless 'drop';
+ * no `process` key (the default process is not written). A sweep with step_gpa keeps the JSON and
+ * hash it had before tolerances existed (and its tables); one without step_gpa now runs with error
+ * control and records the tolerance, so its hash differs from a run made before, and --resume of
+ * such a run refuses.
  */
 export function normalizeDecompressionModel(model: DecompressionModelSpec): DecompressionModelSpec {
   const params: Partial<Record<ParamName, number>> = {};
@@ -128,6 +164,7 @@ export function normalizeDecompressionModel(model: DecompressionModelSpec): Deco
     const v = model.params[name];
     if (v !== undefined) params[name] = v;
   }
-  const base = { thermal: model.thermal, water: model.water, params, step_gpa: model.step_gpa };
+  const accuracy = model.step_gpa !== undefined ? { step_gpa: model.step_gpa } : { tolerance: model.tolerance ?? TOLERANCE_DEFAULT };
+  const base = { thermal: model.thermal, water: model.water, params, ...accuracy };
   return model.deep_onset === undefined || model.deep_onset === 'drop' ? base : { ...base, deep_onset: model.deep_onset };
 }

@@ -89,7 +89,7 @@ describe('profile table', () => {
     // scenario 1: tp 1350, water 100, lid 10 (grid order, the last axis fastest)
     expect([results.tp_c[1], results.water_ppm[1], results.lid_km[1], results.status[1]]).toEqual([1350, 100, 10, 'ok']);
     const csv = path.join(dir, 'column.csv');
-    const r = runCliSync(['column', '--tp', '1350', '--water', '100', '--lid', '10', '--thermal', 'isentropic', '--mode', 'batch', '--step', '0.05', '--profile', csv]);
+    const r = runCliSync(['column', '--tp', '1350', '--water', '100', '--lid', '10', '--thermal', 'isentropic', '--mode', 'batch', '--tolerance', '0.0001', '--profile', csv]);
     expect(r.status, r.stderr).toBe(0);
     const [header, ...lines] = fs.readFileSync(csv, 'utf8').trim().split('\n');
     const names = header.split(',');

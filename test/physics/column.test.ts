@@ -26,9 +26,9 @@ describe('meltColumn', () => {
     expect(meltColumn(dry1350, auto)).toEqual(isentropicColumn(dry1350, auto));
   });
 
-  it('defaultModel: auto, batch, published parameters, 0.05 GPa, no profile; overrides win', () => {
+  it('defaultModel: auto, batch, published parameters, tolerance 1e-4, no profile; overrides win', () => {
     const m = defaultModel();
-    expect(m).toEqual({ thermal: 'auto', water: 'batch', params: P, stepGpa: 0.05, withProfile: false });
+    expect(m).toEqual({ thermal: 'auto', water: 'batch', params: P, tolerance: 1e-4, withProfile: false });
     expect(defaultModel({ water: 'fractional', stepGpa: 0.01 })).toMatchObject({ water: 'fractional', stepGpa: 0.01, thermal: 'auto' });
   });
 

@@ -15,7 +15,7 @@ describe('describePlan', () => {
       '  lid_km           4 values: 0, 10, 20, 30 km',
       'constant inputs:',
       '  upwelling_mm_yr  30 mm/yr',
-      'model: thermal isentropic, water batch, step 0.05 GPa, published parameters',
+      'model: thermal isentropic, water batch, tolerance 0.0001, published parameters',
     ]);
   });
 
@@ -31,7 +31,7 @@ describe('describePlan', () => {
       '  upwelling_mm_yr  log-uniform on 20 to 200 mm/yr',
       'constant inputs:',
       '  lid_km           60 km',
-      'model: thermal conductive, water batch, step 0.05 GPa, parameters M_cpx = 0.15',
+      'model: thermal conductive, water batch, tolerance 0.0001, parameters M_cpx = 0.15',
     ]);
   });
 

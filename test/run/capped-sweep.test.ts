@@ -46,7 +46,7 @@ describe('model.deep_onset', () => {
   it('drop (the default) is not written: the spec, its hash and the table columns stay those of older files', () => {
     expect(sweep('drop').model).toEqual(sweep().model);
     expect(sweepHash(sweep('drop'))).toBe(sweepHash(sweep()));
-    expect(sweep('cap').model).toEqual({ thermal: 'isentropic', water: 'batch', params: {}, step_gpa: 0.05, deep_onset: 'cap' });
+    expect(sweep('cap').model).toEqual({ thermal: 'isentropic', water: 'batch', params: {}, tolerance: 1e-4, deep_onset: 'cap' });
     const t = readTable(dropped);
     expect(t.schema.fields.map((f) => f.name).slice(-RESULT_NUMERIC_NAMES.length)).toEqual([...RESULT_NUMERIC_NAMES]);
     expect(t.getChild('status')!.toArray().filter((s: string) => s === 'onset_beyond_range')).toHaveLength(BEYOND);

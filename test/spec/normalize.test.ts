@@ -19,7 +19,7 @@ describe('normalized spec', () => {
     ]);
     expect(spec.fixed).toEqual({ upwelling_mm_yr: 30 });
     expect(spec.design).toEqual({ kind: 'grid' });
-    expect(spec.model).toEqual({ thermal: 'isentropic', water: 'batch', params: {}, step_gpa: 0.05 });
+    expect(spec.model).toEqual({ thermal: 'isentropic', water: 'batch', params: {}, tolerance: 1e-4 });
   });
 
   it('the example sweeps parse', async () => {
@@ -44,7 +44,7 @@ describe('normalized spec', () => {
     const spec = validateSweep({ axes: { tp_c: { values: [1300, 1350] } } });
     expect(spec.fixed).toEqual({ water_ppm: INPUT_DEFAULTS.water_ppm, lid_km: INPUT_DEFAULTS.lid_km });
     expect(spec.design).toEqual({ kind: 'grid' });
-    expect(spec.model).toEqual({ thermal: 'auto', water: 'batch', params: {}, step_gpa: 0.05 });
+    expect(spec.model).toEqual({ thermal: 'auto', water: 'batch', params: {}, tolerance: 1e-4 });
     expect(spec.name).toBe('sweep');
   });
 
@@ -78,7 +78,22 @@ describe('sweepHash', () => {
     expect(canonicalJson({ b: 1, a: { d: [3, { f: 1, e: 2 }], c: 2 } })).toBe('{"a":{"c":2,"d":[3,{"e":2,"f":1}]},"b":1}');
   });
   it('is stable across versions for a fixed spec (update only on purpose)', async () => {
+    // changed on purpose when sweeps without step_gpa moved to error-controlled steps (tolerance 1e-4)
     const text = await readFile('sweeps/demo-ridge-r7.yaml', 'utf8');
-    expect(sweepHash(parseSweepText(text, 'demo-ridge-r7.yaml'))).toBe('c2dc8f25c444939f38b362079de67865ac304771536a312c24d3157f6d601a92');
+    expect(sweepHash(parseSweepText(text, 'demo-ridge-r7.yaml'))).toBe('55f2cea0981608120766837b0f2f9e7497e1479f01e8d1022c554c79642d789c');
+  });
+  it('a sweep that gives step_gpa keeps the hash it had before tolerances existed', async () => {
+    // c2dc8f25...: the hash of the demo sweep (which then ran at the 0.05 GPa default step) before
+    // tolerances existed; the same sweep with step_gpa 0.05 written out must keep it
+    const text = (await readFile('sweeps/demo-ridge-r7.yaml', 'utf8')).replace('model: { thermal: isentropic, water: batch }', 'model: { thermal: isentropic, water: batch, step_gpa: 0.05 }');
+    expect(text).toContain('step_gpa: 0.05');
+    const spec = parseSweepText(text, 'demo-ridge-r7.yaml');
+    expect(spec.model).toEqual({ thermal: 'isentropic', water: 'batch', params: {}, step_gpa: 0.05 });
+    expect(sweepHash(spec)).toBe('c2dc8f25c444939f38b362079de67865ac304771536a312c24d3157f6d601a92');
+  });
+  it('step_gpa and tolerance together are refused, naming both', () => {
+    expect(() => validateSweep({ axes: { tp_c: { values: [1300] } }, model: { step_gpa: 0.05, tolerance: 1e-4 } })).toThrow(/model\.tolerance: 0\.0001 given together with step_gpa 0\.05/);
+    expect(() => validateSweep({ axes: { tp_c: { values: [1300] } }, model: { tolerance: 0.5 } })).toThrow(/model\.tolerance: 0\.5 is above the allowed range 0\.000001-0\.01/);
+    expect(validateSweep({ axes: { tp_c: { values: [1300] } }, model: { tolerance: 1e-3 } }).model).toEqual({ thermal: 'auto', water: 'batch', params: {}, tolerance: 1e-3 });
   });
 });

@@ -150,6 +150,7 @@ export function registerColumn(program: Command): void {
     .option('--mode <mode>', `${MODEL_FLAG_HELP.mode} [process decompression]`)
     .option('--thermal <model>', `${MODEL_FLAG_HELP.thermal} [process decompression]`)
     .option('--step <GPa>', `${MODEL_FLAG_HELP.step} [process decompression]`)
+    .option('--tolerance <rel>', `${MODEL_FLAG_HELP.tolerance} [process decompression]`)
     .option('--deep-onset <mode>', `${MODEL_FLAG_HELP.deepOnset} [process decompression]`);
   for (const p of allProcesses()) for (const f of p.model.cliFlags ?? []) if (!cmd.options.some((x) => x.long === `--${f.flag}`)) cmd.option(`--${f.flag} <${f.placeholder}>`, f.description);
   cmd

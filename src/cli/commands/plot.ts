@@ -14,6 +14,7 @@ import { checkRangeValue, formatRange, INPUT_RANGES, type InputRange } from '../
 import type { ModelOptions, Scenario } from '../../physics/types.js';
 import { DEFAULT_PROCESS, processNamed } from '../../process/registry.js';
 import type { DecompressionModelSpec } from '../../spec/validate-model.js';
+import { TOLERANCE_DEFAULT } from '../../spec/limits.js';
 import { MODEL_FLAG_HELP, modelFromFlags } from '../model-flags.js';
 import { MAX_DIAGRAM_SCENARIOS } from '../../report/theme.js';
 import { addFigureSizeOptions, checkOutputFile, figureOutput } from '../figure-output.js';
@@ -27,7 +28,8 @@ interface PlotColumnOptions {
   upwelling?: string;
   thermal: string;
   mode: string;
-  step: string;
+  step?: string;
+  tolerance?: string;
   deepOnset?: string;
   title?: string;
   output: string;
@@ -95,7 +97,7 @@ export function plotColumnInputs(o: PlotColumnOptions): { scenarios: Scenario[];
   if (problems.length > 0) throw new InputError(problems);
   const scenarios: Scenario[] = [];
   for (const tp_c of tps) for (const water_ppm of waters) for (const lid_km of lids) for (const upwelling_mm_yr of ups) scenarios.push({ tp_c, water_ppm, lid_km, upwelling_mm_yr });
-  return { scenarios, model: defaultModel({ thermal, water: mode, stepGpa: spec?.step_gpa ?? 0.05, deepOnset: spec?.deep_onset ?? 'drop' }) };
+  return { scenarios, model: defaultModel({ thermal, water: mode, ...(spec?.step_gpa !== undefined ? { stepGpa: spec.step_gpa } : { tolerance: spec?.tolerance ?? TOLERANCE_DEFAULT }), deepOnset: spec?.deep_onset ?? 'drop' }) };
 }
 
 /** Register `meltsweep plot` and its `column` subcommand. */
@@ -113,7 +115,8 @@ export function registerPlot(program: Command): void {
     .option('--upwelling <list>', `solid upwelling rate(s) (${formatRange(INPUT_RANGES.upwelling_mm_yr)}); selects the conductive model under --thermal auto`)
     .option('--thermal <model>', MODEL_FLAG_HELP.thermal, 'auto')
     .option('--mode <mode>', MODEL_FLAG_HELP.mode, 'batch')
-    .option('--step <GPa>', MODEL_FLAG_HELP.step, '0.05')
+    .option('--step <GPa>', MODEL_FLAG_HELP.step)
+    .option('--tolerance <rel>', MODEL_FLAG_HELP.tolerance)
     .option('--deep-onset <mode>', MODEL_FLAG_HELP.deepOnset)
     .option('--title <text>', 'title above the diagram (default "Melting column")')
     .requiredOption('-o, --output <file>', 'the file to write: .svg, .png or .pdf (text as outlines of the bundled font)');
