@@ -19,7 +19,7 @@ import type { ModelSpec } from '../../spec/types.js';
 type ColumnOptions = Record<string, string | boolean | undefined> & { process?: string; json?: boolean; profile?: string };
 
 /** Every input flag of every process, once (processes share flags such as --tp). */
-function allInputFlags(): InputDef[] {
+export function allInputFlags(): InputDef[] {
   const seen = new Map<string, InputDef>();
   for (const p of allProcesses()) for (const i of p.inputsFor({ ...p.model.defaults, params: {} })) if (!seen.has(i.cliFlag)) seen.set(i.cliFlag, i);
   return [...seen.values()];
