@@ -154,6 +154,13 @@ describe('the arc example (sweeps/arc-a2-flux.yaml)', () => {
     const statuses = new Set(c.status);
     expect(statuses.has('ok')).toBe(true);
     expect(statuses.has('failed')).toBe(false);
+    // the box holds both regimes its comment promises: wedges that melt only when wet (threshold > 0)
+    // and wedges that already reach the dry solidus (threshold 0), each at least a quarter of the rows
+    const thresholds = c.water_threshold_ppm as (number | null)[];
+    const wetOnly = thresholds.filter((v) => v !== null && v > 0).length;
+    const dryToo = thresholds.filter((v) => v === 0).length;
+    expect(wetOnly).toBeGreaterThan(t.numRows / 4);
+    expect(dryToo).toBeGreaterThan(t.numRows / 4);
     const s = runCliSync(['sensitivity', out]);
     expect(s.status, s.stderr).toBe(0);
     expect(s.stdout).toMatch(/melt_column_km\s+water_ppm/);
