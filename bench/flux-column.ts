@@ -1,7 +1,7 @@
 /**
  * Flux columns per second on one core, at default accuracy, for a fixed, deterministic set of
  * 2,000 wedge scenarios filling the box of the arc example (sweeps/arc-a2-flux.yaml): water
- * 10-20000 ppm (log-uniform), wedge Tp 1300-1450 degC, plate 30-90 km, slab 80-160 km, both heat
+ * 10-20000 ppm (log-uniform), wedge Tp 1280-1400 degC, plate 50-100 km, slab 80-160 km, both heat
  * modes alternating. Each repetition runs the set until at least 2 s have passed; the figure is the
  * median over the repetitions, per second of process CPU time (one thread).
  *
@@ -17,7 +17,7 @@ export function fluxBenchScenarios(count = 2000): { readonly inputs: Record<stri
   for (let i = 0; i < count; i++) {
     const [u1, u2, u3, u4] = recurrencePoint(i);
     out.push({
-      inputs: { water_ppm: 10 * Math.pow(2000, u1), tp_c: 1300 + 150 * u2, lid_km: 30 + 60 * u3, slab_depth_km: 80 + 80 * u4 },
+      inputs: { water_ppm: 10 * Math.pow(2000, u1), tp_c: 1280 + 120 * u2, lid_km: 50 + 50 * u3, slab_depth_km: 80 + 80 * u4 },
       heat: i % 2 === 0 ? 'balanced' : 'fixed',
     });
   }
