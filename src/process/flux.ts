@@ -125,6 +125,7 @@ export const flux: ProcessDefinition<FluxRuntimeModel> = {
       { flag: 'heat', key: 'heat', placeholder: 'mode', kind: 'text', description: 'heat of melting: balanced (entropy conserved at each depth, default) or fixed (T stays on the geotherm) [process flux]' },
       { flag: 'geotherm', key: 'geotherm', placeholder: 'file.csv', kind: 'file', description: 'geotherm table (columns depth_km or p_gpa, and t_c) instead of plate + adiabat; then --tp and --lid are not inputs [process flux]' },
     ],
+    inputCases: [{ when: { required: ['geotherm'], properties: { geotherm: { type: 'object' } } }, model: { geotherm: { file: 'wedge.csv' }, heat: 'balanced', params: {} } }],
     inputsNote: (m) => ((m as Partial<FluxModelSpec>).geotherm ?? 'lid-adiabat') === 'lid-adiabat' ? null : 'the geotherm table gives the temperatures, so tp_c and lid_km are not inputs',
   },
   resolveModel(m, options) {

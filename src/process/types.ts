@@ -82,6 +82,13 @@ export interface ProcessModelOptions {
    * options removed inputs (e.g. "the geotherm table sets the temperatures"); null for none.
    */
   inputsNote?(model: ModelSpec): string | null;
+  /**
+   * Optional, for the sweep file's JSON Schema: model options that change which inputs the process
+   * takes. Each case: `when`, a JSON Schema of the model section that selects it (e.g. geotherm is a
+   * mapping), and `model`, a sample section for which inputsFor gives the case's inputs. Absent: the
+   * inputs of the default options hold for every section.
+   */
+  readonly inputCases?: readonly { readonly when: { readonly [keyword: string]: unknown }; readonly model: ModelSpec }[];
 }
 
 /** Where a model section comes from, for options that name files. */

@@ -124,6 +124,23 @@ function processBranch(process: AnyProcess): JsonSchema {
       ? { properties: { model: { properties: { process: { enum: [process.name, null] } } } } }
       : { required: ['model'], properties: { model: { type: 'object', required: ['process'], properties: { process: { const: process.name } } } } };
   const inputs = process.inputsFor({ ...process.model.defaults, params: {} });
+  // inputs (allowed and required) of the default options; model options that change the inputs
+  // (ProcessModelOptions.inputCases) select their own inputs by an if/then/else chain
+  let inputsRule: JsonSchema = inputsSchema(inputs);
+  for (const c of [...(process.model.inputCases ?? [])].reverse()) {
+    inputsRule = { if: { required: ['model'], properties: { model: c.when } }, then: inputsSchema(process.inputsFor(c.model)), else: inputsRule };
+  }
+  const then: JsonSchema = {
+    properties: {
+      model: { type: OBJECT_OR_NULL, properties: { process: true, ...modelOptionSchemas(process) }, additionalProperties: false },
+    },
+    allOf: [inputsRule],
+  };
+  return { if: when, then };
+}
+
+/** The axes and fixed inputs a set of inputs allows, and the ones it requires (no default: swept or fixed). */
+function inputsSchema(inputs: readonly InputDef[]): JsonSchema {
   const axes: Record<string, JsonSchema> = {};
   const fixed: Record<string, JsonSchema> = {};
   for (const input of inputs) {
@@ -136,15 +153,13 @@ function processBranch(process: AnyProcess): JsonSchema {
       { required: ['fixed'], properties: { fixed: { type: 'object', required: [i.name] } } },
     ],
   }));
-  const then: JsonSchema = {
+  return {
     properties: {
       axes: { type: OBJECT_OR_NULL, properties: axes, additionalProperties: false },
       fixed: { type: OBJECT_OR_NULL, properties: fixed, additionalProperties: false },
-      model: { type: OBJECT_OR_NULL, properties: { process: true, ...modelOptionSchemas(process) }, additionalProperties: false },
     },
     ...(required.length > 0 ? { allOf: required } : {}),
   };
-  return { if: when, then };
 }
 
 /** The model keys of a process: the schemas its validator carries; `params` is shared; any other key is named only. */

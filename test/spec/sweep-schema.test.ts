@@ -82,14 +82,28 @@ describe('meltsweep schema', () => {
 
   it('ranges and choices come from the validator tables (inputs, design keys, model options, params)', () => {
     const text = JSON.stringify(sweepJsonSchema());
-    const schema = JSON.parse(text) as { allOf: { then: { properties: { axes: { properties: Record<string, { description: string }> }; fixed: { properties: Record<string, unknown> }; model: { properties: Record<string, unknown> } } } }[] };
-    const branch = schema.allOf[1]!.then.properties;
+    type Inputs = { properties: { axes: { properties: Record<string, { description: string }> }; fixed: { properties: Record<string, unknown> } } };
+    const schema = JSON.parse(text) as { allOf: { then: { allOf: Inputs[]; properties: { model: { properties: Record<string, unknown> } } } }[] };
+    // decompression's branch: its inputs (no option changes them) and its model keys
+    const branch = { ...schema.allOf[1]!.then.allOf[0]!.properties, model: schema.allOf[1]!.then.properties.model };
     expect(Object.keys(branch.axes.properties)).toEqual(['tp_c', 'water_ppm', 'lid_km', 'upwelling_mm_yr']);
     expect(branch.fixed.properties.upwelling_mm_yr).toMatchObject({ exclusiveMinimum: 0, maximum: 10000 });
     expect(branch.fixed.properties.tp_c).toMatchObject({ minimum: 1100, maximum: 1800 });
     expect(branch.model.properties.thermal).toMatchObject({ enum: ['isentropic', 'conductive', 'auto'], default: 'auto' });
     expect(branch.model.properties.step_gpa).toMatchObject({ minimum: 0.001, maximum: 0.5 });
     expect(branch.model.properties.params).toMatchObject({ properties: { M_cpx: { minimum: 0, maximum: 0.5, default: 0.17 } } });
+  });
+
+  it('follows a process option that changes its inputs (flux with a geotherm table: tp_c and lid_km are not inputs)', () => {
+    const validate = compile(sweepJsonSchema());
+    const flux = (model: object, fixed: object) => ({ name: 'wedge', axes: { water_ppm: { from: 10, to: 1000, scale: 'log', count: 5 } }, fixed, model: { process: 'flux', ...model } });
+    const table = { geotherm: { file: 'wedge.csv' } };
+    expect(validate(flux(table, { slab_depth_km: 100 })), where(validate.errors)).toBe(true);
+    expect(validate(flux(table, { slab_depth_km: 100, tp_c: 1350 }))).toBe(false);
+    expect(where(validate.errors)).toMatch(/fixed must NOT have additional properties/);
+    // with the default geotherm (plate + adiabat) tp_c and lid_km are inputs again, and required
+    expect(validate(flux({}, { slab_depth_km: 100, tp_c: 1350, lid_km: 60 })), where(validate.errors)).toBe(true);
+    expect(validate(flux({}, { slab_depth_km: 100 }))).toBe(false);
   });
 
   it('agrees with the validator on edge values (the schema never rejects what the validator accepts)', () => {
