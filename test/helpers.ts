@@ -5,6 +5,7 @@ import os from 'node:os';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 import * as arrow from 'apache-arrow';
+import { InputError } from '../src/errors.js';
 
 export const ROOT = fileURLToPath(new URL('..', import.meta.url));
 export const CLI = path.join(ROOT, 'dist', 'src', 'cli', 'main.js');
@@ -46,4 +47,15 @@ export function writeSweep(dir: string, name: string, yaml: string): string {
   const file = path.join(dir, name);
   fs.writeFileSync(file, yaml);
   return file;
+}
+
+/** The problems of the InputError that `fn` throws ([] when it does not throw; other errors rethrown). */
+export function problemsOf(fn: () => unknown): readonly string[] {
+  try {
+    fn();
+  } catch (err) {
+    if (err instanceof InputError) return err.problems;
+    throw err;
+  }
+  return [];
 }

@@ -46,6 +46,13 @@ export function figureOutput(o: FigureCliOptions): { format: FigureFormat; size:
   const problems: string[] = [];
   const format = formatOfPath(o.output);
   if (format === null) problems.push(`-o: ${JSON.stringify(o.output)} is not allowed; give a file name ending in .svg, .png or .pdf`);
+  const size = figureSize(o, problems);
+  if (problems.length > 0) throw new InputError(problems);
+  return { format: format as FigureFormat, size };
+}
+
+/** --width and --dpi of a picture; each bad value is added to `problems` (the caller throws). */
+export function figureSize(o: { readonly width?: string; readonly dpi?: string }, problems: string[]): ExportSize {
   const attempt = <T>(fn: () => T): T | undefined => {
     try {
       return fn();
@@ -57,6 +64,5 @@ export function figureOutput(o: FigureCliOptions): { format: FigureFormat; size:
   };
   const width = o.width === undefined ? undefined : attempt(() => parseWidthOption(o.width as string));
   const dpi = o.dpi === undefined ? undefined : attempt(() => parseDpiOption(o.dpi as string));
-  if (problems.length > 0) throw new InputError(problems);
-  return { format: format as FigureFormat, size: { width, dpi } };
+  return { width, dpi };
 }

@@ -2,21 +2,10 @@ import { afterAll, describe, expect, it } from 'vitest';
 import fs from 'node:fs';
 import path from 'node:path';
 import { plotProcessInputs } from '../../src/cli/commands/plot.js';
-import { InputError } from '../../src/errors.js';
-import { runCliSync, tmpDir } from '../helpers.js';
+import { runCliSync, tmpDir, problemsOf } from '../helpers.js';
 
 const dir = tmpDir('plot-process');
 afterAll(() => fs.rmSync(dir, { recursive: true, force: true }));
-
-const problemsOf = (fn: () => unknown): readonly string[] => {
-  try {
-    fn();
-  } catch (err) {
-    if (err instanceof InputError) return err.problems;
-    throw err;
-  }
-  return [];
-};
 
 describe('plot column --process NAME (a process with its own diagram)', () => {
   it('reads every combination of the lists as `column` reads one scenario', () => {

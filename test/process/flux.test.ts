@@ -2,25 +2,14 @@ import { afterAll, describe, expect, it } from 'vitest';
 import { createHash } from 'node:crypto';
 import fs from 'node:fs';
 import path from 'node:path';
-import { InputError } from '../../src/errors.js';
 import { readResultsMeta } from '../../src/io/arrow-schema.js';
 import { FLUX_RESULTS } from '../../src/process/flux.js';
 import { loadSweepFile, validateSweep } from '../../src/spec/index.js';
-import { ROOT, readTable, runCliSync, tableColumns, tmpDir, writeSweep } from '../helpers.js';
+import { ROOT, readTable, runCliSync, tableColumns, tmpDir, writeSweep, problemsOf } from '../helpers.js';
 import { refColumn, type RefInputs } from './flux-reference.js';
 
 const dir = tmpDir('flux');
 afterAll(() => fs.rmSync(dir, { recursive: true, force: true }));
-
-const problemsOf = (fn: () => unknown): readonly string[] => {
-  try {
-    fn();
-  } catch (err) {
-    if (err instanceof InputError) return err.problems;
-    throw err;
-  }
-  return [];
-};
 
 const columnJson = (args: readonly string[]): Record<string, unknown> => {
   const r = runCliSync(['column', '--process', 'flux', ...args, '--json']);

@@ -3,7 +3,6 @@ import fs from 'node:fs';
 import path from 'node:path';
 import { fileURLToPath, pathToFileURL } from 'node:url';
 import { columnInputs } from '../../src/cli/commands/column.js';
-import { InputError } from '../../src/errors.js';
 import { readResultsMeta } from '../../src/io/arrow-schema.js';
 import { inspectTable } from '../../src/io/inspect-table.js';
 import { registerProcess } from '../../src/process/registry.js';
@@ -11,7 +10,7 @@ import type { ProcessDefinition } from '../../src/process/types.js';
 import { runSweep } from '../../src/run/run-sweep.js';
 import { analyzeResultsFile } from '../../src/run/sensitivity-file.js';
 import { validateSweep } from '../../src/spec/index.js';
-import { readTable, runCliSync, tableColumns, tmpDir } from '../helpers.js';
+import { readTable, runCliSync, tableColumns, tmpDir, problemsOf } from '../helpers.js';
 
 // A second process (test/fixtures/fake-process.mjs) flows through planner -> worker -> Arrow ->
 // inspect -> sensitivity with nothing in run/, io/ or analyze/ knowing it: it is registered
@@ -19,16 +18,6 @@ import { readTable, runCliSync, tableColumns, tmpDir } from '../helpers.js';
 const FAKE_MODULE = pathToFileURL(fileURLToPath(new URL('../fixtures/fake-process.mjs', import.meta.url))).href;
 const dir = tmpDir('second-process');
 afterAll(() => fs.rmSync(dir, { recursive: true, force: true }));
-
-const problemsOf = (fn: () => unknown): readonly string[] => {
-  try {
-    fn();
-  } catch (err) {
-    if (err instanceof InputError) return err.problems;
-    throw err;
-  }
-  return [];
-};
 
 beforeAll(async () => {
   const mod = (await import(FAKE_MODULE)) as { default: ProcessDefinition<{ scale: number }> };

@@ -4,10 +4,10 @@
  */
 import type { Command } from 'commander';
 import { InputError } from '../../errors.js';
-import { parseDpiOption, parseWidthOption, type ExportSize } from '../../report/export-options.js';
+import type { ExportSize } from '../../report/export-options.js';
 import { parseAtOption, parseContourOption } from '../../report/report-options.js';
 import { CAPPED_HELP, parseCappedOption, type CappedChoice } from '../../run/capped-rows.js';
-import { checkOutputFile } from '../figure-output.js';
+import { checkOutputFile, figureSize } from '../figure-output.js';
 import { parseNumberOption } from '../options.js';
 
 interface ReportCliOptions {
@@ -35,19 +35,9 @@ function figuresSize(o: ReportCliOptions): ExportSize {
     if (problems.length > 0) throw new InputError(problems);
     return {};
   }
-  const attempt = <T>(fn: () => T): T | undefined => {
-    try {
-      return fn();
-    } catch (err) {
-      if (!(err instanceof InputError)) throw err;
-      problems.push(...err.problems);
-      return undefined;
-    }
-  };
-  const width = o.width === undefined ? undefined : attempt(() => parseWidthOption(o.width as string));
-  const dpi = o.dpi === undefined ? undefined : attempt(() => parseDpiOption(o.dpi as string));
+  const size = figureSize(o, problems);
   if (problems.length > 0) throw new InputError(problems);
-  return { width, dpi };
+  return size;
 }
 
 /** `r7.arrow` -> `r7.report.html`. */
