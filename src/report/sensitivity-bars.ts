@@ -5,6 +5,7 @@
  */
 import type { MainEffectCurve, SensitivityRecord } from '../analyze/types.js';
 import type { FieldLabels } from './labels.js';
+import { linearTicks, logAxisTicks } from './ticks.js';
 import type { PlotSpec } from './render.js';
 import { INK, MEASURE_COLOURS } from './theme.js';
 
@@ -79,6 +80,30 @@ export function sensitivityBarsSpec(records: readonly SensitivityRecord[], outpu
   return spec as unknown as PlotSpec;
 }
 
+/** Room left on each side of the data on a main-effect axis (fraction of its span): no point sits on the frame. */
+const EFFECT_PAD = 0.05;
+
+/** The x domain of a main-effect panel: the data's extent padded on both sides (in log10 on log axes). */
+function paddedDomain(xs: readonly number[], log: boolean): { domain: [number, number] } {
+  const t = xs.map((x) => (log ? Math.log10(x) : x));
+  let lo = Math.min(...t);
+  let hi = Math.max(...t);
+  if (!(hi > lo)) [lo, hi] = [lo - 0.5, hi + 0.5];
+  const pad = (hi - lo) * EFFECT_PAD;
+  const back = (v: number): number => (log ? 10 ** v : v);
+  return { domain: [back(lo - pad), back(hi + pad)] };
+}
+
+/** Tick values of a main-effect panel: inside the data's extent, as many as fit without touching. */
+function effectTicks(xs: readonly number[], log: boolean, panelWidth: number): number[] {
+  const [lo, hi] = paddedDomain(xs, log).domain;
+  const dataLo = Math.min(...xs);
+  const dataHi = Math.max(...xs);
+  const share = log ? Math.log10(dataHi / dataLo) / Math.log10(hi / lo) : (dataHi - dataLo) / (hi - lo);
+  const width = panelWidth * (Number.isFinite(share) && share > 0 ? share : 1);
+  return log ? logAxisTicks(dataLo, dataHi, width) : linearTicks(dataLo, dataHi, width);
+}
+
 /**
  * Main-effect curves of one output: one small panel per input (its own x axis with its unit, a
  * shared y axis in the output's unit). Grids: one point per axis value; other designs: bin means.
@@ -94,15 +119,16 @@ export function mainEffectsSpec(
   const mine = curves.filter((c) => c.output === output && c.mean.some((m) => Number.isFinite(m)));
   if (mine.length === 0) return null;
   const yTitle = labels.axisTitle(output);
+  const panelWidth = options.panelWidth ?? 140;
   const panels = mine.map((c, k) => {
     const points = c.x.map((x, i) => ({ x, mean: c.mean[i], count: c.count[i] })).filter((q) => Number.isFinite(q.mean) && Number.isFinite(q.x));
     const log = logInputs.has(c.input) && points.every((q) => q.x > 0);
     const enc = {
-      x: { field: 'x', type: 'quantitative' as const, title: labels.axisTitle(c.input), scale: { type: log ? ('log' as const) : ('linear' as const), zero: false, nice: true }, axis: { tickCount: 4, grid: false, labelOverlap: 'greedy' as const, labelFlush: true } },
-      y: { field: 'mean', type: 'quantitative' as const, title: k === 0 ? yTitle : null, scale: { zero: false }, axis: { tickCount: 5, grid: true, labels: k === 0 } },
+      x: { field: 'x', type: 'quantitative' as const, title: labels.axisTitle(c.input), scale: { type: log ? ('log' as const) : ('linear' as const), ...paddedDomain(points.map((q) => q.x), log), nice: false }, axis: { values: effectTicks(points.map((q) => q.x), log, panelWidth), grid: false, labelOverlap: false, labelFlush: false } },
+      y: { field: 'mean', type: 'quantitative' as const, title: k === 0 ? yTitle : null, scale: { zero: false, padding: 6 }, axis: { tickCount: 5, grid: true, labels: k === 0 } },
     };
     return {
-      width: options.panelWidth ?? 140,
+      width: panelWidth,
       height: options.height ?? 140,
       data: { values: points },
       layer: [
