@@ -18,7 +18,7 @@ import { contourLevels, type ContourLevel } from './map-contours.js';
 import { keyPanel, wrappedTitle, type FigureLayout, type KeyEntry } from './figure.js';
 import { textWidthPx } from './font.js';
 import { labelsFit } from './ticks.js';
-import { formatNumber, labelsOfProcess, shortDescription, UNIT_SPACE } from './labels.js';
+import { formatNumber, labelsOfProcess, UNIT_SPACE } from './labels.js';
 import type { PlotSpec } from './render.js';
 import { mapSubtitle, type MapCell, type SweepMapData } from './sweep-map.js';
 import { HAIRLINE, HEATMAP_SCHEME, INK, NO_VALUE_FILL, PAPER } from './theme.js';
@@ -45,7 +45,7 @@ const CONTOUR_LABEL_SIZE = 10;
 export interface MapFigureOptions {
   /** output values to draw contour lines of */
   readonly contours?: readonly number[];
-  /** title (default: the output's description) */
+  /** title (default: the output's label, e.g. "Crust thickness") */
   readonly title?: string;
   /** width of the map panel, px (default 300) */
   readonly width?: number;
@@ -95,7 +95,8 @@ function edgeLabel(v: number, log: boolean): string {
 /**
  * Ticks of a binned axis, always on bin edges: on linear axes the edges that are multiples of the
  * smallest round step (1, 2, 2.5 or 5 x 10^k, a whole number of bins) whose labels do not touch; on log axes every
- * s-th edge from the first (the axis starts at the data), s the smallest that fits.
+ * s-th edge from the first (the axis starts at the data), s the smallest that fits,
+ * preferring strides that land on whole decades from the first edge.
  */
 export function edgeTicks(edges: readonly number[], log: boolean, lengthPx: number, along: 'x' | 'y'): number[] {
   const t = log ? Math.log10 : (v: number) => v;
@@ -105,7 +106,11 @@ export function edgeTicks(edges: readonly number[], log: boolean, lengthPx: numb
   const fits = (ticks: readonly number[]): boolean => labelsFit(ticks.map(px), ticks.map((v) => edgeLabel(v, log)), along);
   const strides = [1, 2, 3, 4, 5, 6, 8, 10, 12, 15, 20, 25, 30, 40, 50, 100];
   if (log) {
-    for (const s of strides) {
+    // whole decades from the first edge first (bins per decade d: strides that divide d or are multiples of it)
+    const perDecade = edges.length > 1 ? Math.max(1, Math.round(1 / Math.log10(edges[1] / edges[0]))) : 1;
+    const divisors = Array.from({ length: perDecade }, (_, k) => k + 1).filter((s) => perDecade % s === 0);
+    const aligned = [...divisors, ...[2, 3, 5, 10].map((m) => m * perDecade)];
+    for (const s of [...aligned, ...strides.filter((x) => !aligned.includes(x))]) {
       const ticks = edges.filter((_, k) => k % s === 0);
       if (ticks.length < 2 || fits(ticks)) return ticks;
     }
@@ -333,7 +338,7 @@ export function sweepMapSpec(map: SweepMapData, options: MapFigureOptions = {}):
   const keyWidth = width + 40;
   const key = entries.length > 0 ? keyPanel([{ entries }], keyWidth) : null;
   const main = { width, height, layer: layers };
-  const title = wrappedTitle(options.title ?? shortDescription(info), [`${map.output}; ${mapSubtitle(map)}`], keyWidth);
+  const title = wrappedTitle(options.title ?? labels.heading(map.output), [`${map.output}; ${mapSubtitle(map)}`], keyWidth);
   // the key's marks carry their own colours (scale null): its colour scale must not be shared with the map's
   const spec =
     key === null

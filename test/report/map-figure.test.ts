@@ -97,8 +97,8 @@ describe('map layout', () => {
     const r = await renderSvg(sweepMapSpec(map, { contours: [3] }));
     expect(r.warnings).toEqual([]);
     expect(pointsOutsideFrame(r.svg, ALL_MARKS)).toEqual([]);
-    // four bins of equal ratio from 5 to 3000 ppm: edges 5, 24.7, 122, 606, 3000, labelled to 2 digits
-    expect(axisLabels(r.svg, 'Source water (ppm)')).toEqual(['5', '25', '120', '610', '3000']);
+    // about four bins over 2.8 decades: one bin per decade from 5 ppm, every decade an edge and a tick
+    expect(axisLabels(r.svg, 'Source water (ppm)')).toEqual(['5', '50', '500', '5000']);
     // round bin widths on the linear axis (25 degC from 1300), each tick on an edge
     expect(map.cells.filter((c) => c.j === 0).map((c) => c.x0)).toEqual([1300, 1325, 1350, 1375]);
     expect(axisLabels(r.svg, 'Potential temperature (°C)')).toEqual(['1300', '1325', '1350', '1375', '1400']);
@@ -118,13 +118,18 @@ describe('map layout', () => {
     expect(edgeTicks(water, false, 120, 'y')).toEqual([100, 200, 300, 400, 500]);
     // a range that is not a multiple of the width: the outer bins reach the next multiples
     expect(binEdges(1283, 1397, 6, false)).toEqual([1280, 1300, 1320, 1340, 1360, 1380, 1400]);
-    // log: equal ratios from the data's start; ticks are edges
+    // log: a whole number of bins per decade from the data's start; ticks are edges, decades first
     const up = binEdges(20, 200, 10, true);
     expect(up[0]).toBe(20);
     expect(up[10]).toBe(200);
     const ticks = edgeTicks(up, true, 300, 'x');
     expect(ticks.every((v) => up.includes(v))).toBe(true);
     expect(ticks[0]).toBe(20);
+    // 10 to 20000 ppm in about 24 bins: 7 per decade, ticks on the decades 10, 100, 1000, 10000
+    const wedge = binEdges(10, 20000, 24, true);
+    expect(wedge[0]).toBe(10);
+    expect(wedge[wedge.length - 1]).toBeGreaterThanOrEqual(20000);
+    expect(edgeTicks(wedge, true, 300, 'x')).toEqual([10, 100, 1000, 10000]);
   });
 
   it('writes values in every cell or in none', async () => {
