@@ -26,10 +26,11 @@ export function axisTitles(svg: string): string[] {
   return [...svg.matchAll(/aria-label="[XY]-axis titled '([^']*)'/g)].map((m) => m[1]);
 }
 
-/** Every text of an SVG in document order (entities decoded), e.g. axis labels and titles. */
+/** Every text of an SVG in document order (entities decoded; the lines of a multi-line text joined), e.g. axis labels and titles. */
 export function svgTexts(svg: string): string[] {
   const decode = (t: string): string => t.replace(/&lt;/g, '<').replace(/&gt;/g, '>').replace(/&quot;/g, '"').replace(/&#39;/g, "'").replace(/&amp;/g, '&');
-  return [...svg.matchAll(/<text[^>]*>([^<]*)<\/text>/g)].map((m) => decode(m[1]));
+  // a multi-line text (<tspan> lines) is one string, its lines joined by spaces
+  return [...svg.matchAll(/<text[^>]*>([\s\S]*?)<\/text>/g)].map((m) => decode(m[1].replace(/<\/tspan><tspan[^>]*>/g, ' ').replace(/<[^>]+>/g, '')));
 }
 
 /** One line of text of a vega SVG, placed on the page: its extent measured with the house font. */

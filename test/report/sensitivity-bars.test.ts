@@ -3,9 +3,11 @@ import { describe, expect, it } from 'vitest';
 import type { SensitivityRecord } from '../../src/analyze/types.js';
 import { labelsOfProcess } from '../../src/report/labels.js';
 import { renderSvg } from '../../src/report/render.js';
-import { mainEffectsSpec, sensitivityBarsSpec } from '../../src/report/sensitivity-bars.js';
+import { layoutWidthFor, svgSize } from '../../src/report/export.js';
+import { renderFigure } from '../../src/report/figure.js';
+import { mainEffectsSpec, sensitivityBarsLayout, sensitivityBarsSpec } from '../../src/report/sensitivity-bars.js';
 import { labelsFit, linearTicks, logAxisTicks } from '../../src/report/ticks.js';
-import { axisTitles, markGroups, pointsOutsideFrame, svgTexts, textBoxes, touchingTexts, xmlProblem } from './helpers.js';
+import { axisTitles, markGroups, markPoints, pointsOutsideFrame, svgTexts, textBoxes, touchingTexts, xmlProblem } from './helpers.js';
 
 const decompression = labelsOfProcess('decompression');
 const flux = labelsOfProcess('flux');
@@ -96,4 +98,39 @@ describe('main-effect axes', () => {
     const upwelling = textBoxes(r.svg).map((t) => t.text).filter((t) => /^[0-9]+$/.test(t)).map(Number);
     expect(upwelling).not.toContain(1000);
   });
+});
+
+describe('index bars laid out for a journal column', () => {
+  // four flux inputs with long names, intervals reaching below 0 and above 1
+  const records = ['water_ppm', 'tp_c', 'lid_km', 'slab_depth_km'].flatMap((input, k) => [
+    rec(input, 'S1', 0.6 - 0.2 * k, [0.5 - 0.25 * k, 0.75 - 0.15 * k], 'h2o_melt_wt_pct'),
+    rec(input, 'ST', 0.7 - 0.2 * k, [0.55 - 0.2 * k, 1.05 - 0.2 * k], 'h2o_melt_wt_pct'),
+  ]);
+  const inputs = ['water_ppm', 'tp_c', 'lid_km', 'slab_depth_km'];
+
+  for (const mm of [85, 60, 175]) {
+    it(`re-lays the bars out at ${mm} mm: fonts stay the same size, names wrap, nothing is cut or touches`, async () => {
+      const target = layoutWidthFor({ width: { mm } })!;
+      const r = await renderFigure(sensitivityBarsLayout(records, 'h2o_melt_wt_pct', inputs, flux)!, target);
+      expect(r.warnings).toEqual([]);
+      // laid out at the width, not scaled to it: layout px print at 0.75 pt, so 11 px names are 8.25 pt
+      expect(svgSize(r.svg).width).toBeCloseTo(target, 0);
+      const boxes = textBoxes(r.svg);
+      expect(Math.min(...boxes.map((b) => b.size))).toBeGreaterThanOrEqual(10.5);
+      for (const b of boxes) {
+        expect(b.left, b.text).toBeGreaterThanOrEqual(-0.5);
+        expect(b.right, b.text).toBeLessThanOrEqual(b.pictureWidth + 0.5);
+      }
+      expect(touchingTexts(r.svg)).toEqual([]);
+      // every name in full (its lines joined), left of the bars' frame
+      const frameLeft = markPoints(r.svg, ['index_bars'])[0].frame[0];
+      const names = boxes.filter((b) => b.size === 11 && !b.bold);
+      for (const n of names) expect(n.right, n.text).toBeLessThanOrEqual(frameLeft + 0.5);
+      const joined = svgTexts(r.svg).join(' | ');
+      for (const name of ['Wedge water', 'Wedge potential temperature', 'Plate thickness', 'Slab depth']) expect(joined).toContain(name);
+      // bars and whiskers inside the frame
+      expect(pointsOutsideFrame(r.svg, ['index_bars', 'index_intervals'])).toEqual([]);
+      if (mm === 60) expect(names.length).toBeGreaterThan(inputs.length);
+    });
+  }
 });
