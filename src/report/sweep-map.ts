@@ -151,14 +151,15 @@ const NICE_MANTISSAS = [1, 2, 2.5, 5];
  *   edges on its multiples, so ticks on the edges read as round numbers (1400, 1450, ...); the
  *   first and last bins may reach a little beyond the range to the next multiple.
  * - Log axes: a whole number of bins per decade, starting at min (a log axis starts at the data),
- *   so every decade from min (5, 50, 500 ppm) is an edge; the last bin may reach past max.
+ *   so every decade from min (5, 50, 500 ppm) is an edge; the last edge is max.
  */
 export function binEdges(min: number, max: number, bins: number, log: boolean): number[] {
   if (log && min > 0 && max > min) {
     const decades = Math.log10(max / min);
     const perDecade = Math.max(1, Math.round(bins / decades));
-    const n = Math.max(1, Math.ceil(decades * perDecade - 1e-9));
-    return Array.from({ length: n + 1 }, (_, k) => Number((min * 10 ** (k / perDecade)).toPrecision(12)));
+    // the last edge is max itself: the last bin is up to half a bin wider or narrower than the others
+    const n = Math.max(1, Math.round(decades * perDecade));
+    return Array.from({ length: n + 1 }, (_, k) => (k === n ? max : Number((min * 10 ** (k / perDecade)).toPrecision(12))));
   }
   if (!(max > min)) return Array.from({ length: bins + 1 }, (_, i) => min + i / bins);
   const raw = (max - min) / bins;
