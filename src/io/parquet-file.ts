@@ -14,7 +14,7 @@
 import * as arrow from 'apache-arrow';
 import fs from 'node:fs';
 import type * as PQ from 'parquet-wasm';
-import { discardTemporaryFile, publishTemporaryFile, writeAllSync } from './ipc-file.js';
+import { discardTemporaryFile, openTemporaryFile, publishTemporaryFile, writeAllSync } from './ipc-file.js';
 
 type ParquetWasm = typeof PQ;
 
@@ -99,7 +99,7 @@ export class ParquetFileSink {
     private readonly schema: arrow.Schema,
     options: ParquetWriteOptions,
   ) {
-    this.fd = fs.openSync(tmpPath, 'w');
+    this.fd = openTemporaryFile(tmpPath);
     this.rowGroupRows = options.rowGroupRows ?? DEFAULT_ROW_GROUP_ROWS;
     this.props = writerProperties(pq, schema, options);
     // the library pulls batches from this stream; a high-water mark of 0 on the readable side
