@@ -102,11 +102,14 @@ export class IpcFileSink {
   }
 }
 
-/** Create a temporary file for writing; it is removed if the process is interrupted before it is published. */
+/**
+ * Create a temporary file for writing (and reading back: the Parquet sink checksums its data);
+ * it is removed if the process is interrupted before it is published.
+ */
 export function openTemporaryFile(tmpPath: string): number {
   trackTemporary(tmpPath);
   try {
-    return fs.openSync(tmpPath, 'w');
+    return fs.openSync(tmpPath, 'w+');
   } catch (err) {
     untrackTemporary(tmpPath);
     throw err;
