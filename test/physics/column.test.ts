@@ -26,9 +26,14 @@ describe('meltColumn', () => {
     expect(meltColumn(dry1350, auto)).toEqual(isentropicColumn(dry1350, auto));
   });
 
-  it('defaultModel: auto, batch, published parameters, tolerance 1e-4, no profile; overrides win', () => {
+  it('defaultModel: auto, batch, published parameters, each column its default tolerance, no profile; overrides win', () => {
     const m = defaultModel();
-    expect(m).toEqual({ thermal: 'auto', water: 'batch', params: P, tolerance: 1e-4, withProfile: false });
+    expect(m).toEqual({ thermal: 'auto', water: 'batch', params: P, withProfile: false });
+    // no tolerance given: the isentropic column runs at 1e-4, the conductive one at 1e-3
+    expect(isentropicColumn(dry1350, m)).toEqual(isentropicColumn(dry1350, { ...m, tolerance: 1e-4 }));
+    const slow = { ...dry1350, upwelling_mm_yr: 5 };
+    expect(meltColumn(slow, m)).toEqual(meltColumn(slow, { ...m, tolerance: 1e-3 }));
+    expect(meltColumn(slow, m)).not.toEqual(meltColumn(slow, { ...m, tolerance: 1e-4 }));
     expect(defaultModel({ water: 'fractional', stepGpa: 0.01 })).toMatchObject({ water: 'fractional', stepGpa: 0.01, thermal: 'auto' });
   });
 
