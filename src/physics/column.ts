@@ -33,12 +33,18 @@ export function resolveThermalModel(scenario: Scenario, model: ModelOptions): Th
  *   conductiveResolution) and whether to return the profile
  */
 export function meltColumn(scenario: Scenario, model: ModelOptions): ColumnResult {
-  // one guard per layer, not stacked: each thermal model never throws and checks its rows are
-  // finite (ColumnFn contract, column-result.ts); computeChunk guards the process boundary
+  // the physics' one never-throw guard: the thermal models may throw (ColumnFn contract) and check
+  // their rows are finite; computeChunk guards the process boundary for any process, plug-ins included
   const name = resolveThermalModel(scenario, model);
   const fn = Object.prototype.hasOwnProperty.call(THERMAL_MODELS, name) ? THERMAL_MODELS[name] : undefined;
   if (fn === undefined) return withCapFields(failedResult(`unknown thermal model ${String(model.thermal)}`), model);
-  return withCapFields(fn(scenario, model), model);
+  let row: ColumnResult;
+  try {
+    row = fn(scenario, model);
+  } catch (err) {
+    row = failedResult(`${name} column: ${err instanceof Error ? err.message : String(err)}`);
+  }
+  return withCapFields(row, model);
 }
 
 /**

@@ -310,22 +310,18 @@ function firstResolution(tol: number): number {
 /**
  * One conductive column (the `conductive` entry of the thermal-model table): the steady column of
  * conductiveProfile reduced to the fields of the isentropic column by the shared helpers in
- * column-result.ts, plus surface_heat_flow_mw_m2. Never throws; a failed iteration gives a `failed`
+ * column-result.ts, plus surface_heat_flow_mw_m2. A failed iteration gives a `failed`
  * row with the reason.
  *
  * @param scenario tp_c (degC), water_ppm (ppm), lid_km (km), upwelling_mm_yr (mm/yr, required, > 0)
  * @param model water mode (batch), params, withProfile, conductiveResolution, conductiveMaxIterations
  */
 export function conductiveColumn(scenario: Scenario, model: ModelOptions, domain: ConductiveDomainOptions = {}): ColumnResult {
-  // the one never-throw guard of this entry point covers the solve and the aggregates
-  try {
-    const out = controlled(scenario, model, domain);
-    if (out.kind === 'failed') return failedResult(out.reason);
-    if (out.kind === 'onset_beyond_range') return onsetBeyondRangeResult(out.reason);
-    return out.row;
-  } catch (err) {
-    return failedResult(`conductive column: ${err instanceof Error ? err.message : String(err)}`);
-  }
+  // no guard here: meltColumn is the physics' one never-throw guard
+  const out = controlled(scenario, model, domain);
+  if (out.kind === 'failed') return failedResult(out.reason);
+  if (out.kind === 'onset_beyond_range') return onsetBeyondRangeResult(out.reason);
+  return out.row;
 }
 
 /**

@@ -23,7 +23,7 @@ export interface DecompressionModelSpec extends ModelSpec {
   readonly step_gpa?: number;
   /**
    * relative tolerance of every output of the column that computes a row (allowed 1e-6-1e-2; the
-   * conductive column 1e-5-1e-2): the isentropic column's error-controlled steps, the conductive
+   * conductive column 1e-4-1e-2): the isentropic column's error-controlled steps, the conductive
    * column's grid control. Not given: 1e-4 for isentropic columns, 1e-3 for conductive ones; the
    * normalized form writes the default of the column the sweep runs (normalizeDecompressionModel).
    * Absent when step_gpa is given (then conductive rows use their default).

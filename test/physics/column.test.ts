@@ -46,8 +46,15 @@ describe('meltColumn', () => {
     });
     const r = meltColumn(dry1350, defaultModel({ params: throwing as unknown as MeltParams }));
     expect(r.status).toBe('failed');
-    expect(r.reason).toContain('boom');
+    expect(r.reason).toBe('isentropic column: boom');
     for (const k of RESULT_NUMERIC_NAMES) expect(r[k]).toBeNull();
+    // the same for the conductive model, with deep_onset cap marks added to the failed row
+    const c = meltColumn({ ...dry1350, upwelling_mm_yr: 10 }, defaultModel({ params: throwing as unknown as MeltParams, deepOnset: 'cap' }));
+    expect(c.status).toBe('failed');
+    expect(c.reason).toBe('conductive column: boom');
+    expect(c.onset_capped).toBeNull();
+    // meltColumn is the one guard: the thermal models themselves let the exception through
+    expect(() => isentropicColumn(dry1350, defaultModel({ params: throwing as unknown as MeltParams }))).toThrow('boom');
   });
 
   it('turns non-finite parameters into a failed row, never a NaN in an ok row', () => {
