@@ -13,7 +13,7 @@ import { INPUT_NAMES, type InputName } from '../physics/fields.js';
 import { drySolidusC, lherzLiquidusC, wetSolidusC } from '../physics/melting.js';
 import { MODEL_MAX_P_GPA, type ColumnResult, type ModelOptions, type Scenario, type ThermalModel } from '../physics/types.js';
 import { depthKmFromPGpa, pGpaFromDepthKm, wtPctFromPpm } from '../physics/units.js';
-import { formatNumber, inputValueLabel, unitOf } from './labels.js';
+import { formatNumber, inputValueLabel, UNIT_SPACE, unitOf } from './labels.js';
 
 /** One scenario to draw, with an optional legend label (default: the inputs that differ between scenarios). */
 export interface DiagramScenario {
@@ -107,7 +107,7 @@ export const LHERZ_LIQUIDUS = 'lherzolite liquidus';
 
 /** Name of the wet solidus of a source water content, with the unit from the registry. */
 export function wetSolidusName(waterPpm: number): string {
-  return `wet solidus, ${formatNumber(waterPpm)} ${unitOf('water_ppm')}`;
+  return `wet solidus, ${formatNumber(waterPpm)}${UNIT_SPACE}${unitOf('water_ppm')}`;
 }
 
 /** Inputs with the same value in every scenario (NaN upwelling counts as held only if all are given). */

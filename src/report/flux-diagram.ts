@@ -11,10 +11,10 @@
  */
 import { drySolidusC } from '../physics/melting.js';
 import { pGpaFromDepthKm } from '../physics/units.js';
-import { computeFlux, FLUX_INPUTS, FLUX_TABLE_INPUTS, type FluxRuntimeModel } from '../process/flux.js';
+import { computeFlux, flux, FLUX_INPUTS, FLUX_TABLE_INPUTS, type FluxRuntimeModel } from '../process/flux.js';
 import type { ProcessDiagram, ProcessResult } from '../process/types.js';
 import { keyPanel, wrappedTitle, type FigureLayout, type KeyEntry } from './figure.js';
-import { axisTitle, fieldInfo, fixedValueLabel, formatNumber, unitOf } from './labels.js';
+import { formatNumber, labelsOfProcess } from './labels.js';
 import type { PlotSpec } from './render.js';
 import { CATEGORICAL, MAX_DIAGRAM_SCENARIOS, MUTED, REFERENCE } from './theme.js';
 
@@ -88,7 +88,8 @@ export function fluxDiagramData(items: readonly FluxDiagramItem[], model: FluxRu
   const differs = inputs.filter((i) => new Set(items.map((s) => s.inputs[i.name])).size > 1);
   const held = inputs.filter((i) => !differs.includes(i)).map((i) => ({ name: i.name, value: items[0].inputs[i.name] }));
   const shown = differs.length > 0 ? differs : inputs;
-  const auto = items.map((s) => shown.map((i) => `${SYMBOLS[i.name] ?? i.name} ${formatNumber(s.inputs[i.name])}${unitOf(i.name) === '' ? '' : ` ${unitOf(i.name)}`}`).join(', '));
+  const words = labelsOfProcess(flux);
+  const auto = items.map((s) => shown.map((i) => `${SYMBOLS[i.name] ?? i.name} ${words.valueWithUnit(i.name, s.inputs[i.name])}`).join(', '));
   const labels = items.map((s, k) => (s.label === undefined ? auto[k] : `${s.label}: ${auto[k]}`));
   const results = items.map((s) => computeFlux(s.inputs, runtime));
   const p = model.params;
@@ -161,10 +162,8 @@ export interface FluxDiagramOptions {
 
 /** The default title: the inputs held constant across the scenarios. */
 export function fluxDefaultTitle(data: FluxDiagramData): string {
-  const held = data.held.map((h) => {
-    const input = FLUX_INPUTS.find((i) => i.name === h.name);
-    return input === undefined ? fixedValueLabel(h.name, h.value) : `${input.label} ${formatNumber(h.value)}${input.displayUnit === '' ? '' : ` ${input.displayUnit}`}`;
-  });
+  const words = labelsOfProcess(flux);
+  const held = data.held.map((h) => words.fixedValue(h.name, h.value));
   return `${data.labels.length === 1 ? 'Wedge column' : 'Wedge columns'}${held.length > 0 ? ` at ${held.join(', ')}` : ''}`;
 }
 
@@ -173,7 +172,8 @@ export function fluxDiagramSpec(data: FluxDiagramData, options: FluxDiagramOptio
   const width = Math.round(options.width ?? 330);
   const height = Math.round(Math.min(470, Math.max(250, width * 1.2)));
   const depthScale = { domain: [0, data.depthMaxKm], reverse: true, nice: false, zero: false };
-  const depthTitle = axisTitle({ ...fieldInfo('onset_depth_km'), label: 'depth' });
+  const words = labelsOfProcess(flux);
+  const depthTitle = words.axisTitle('depth_km');
   const y = (title: string | null, axis: Record<string, unknown> = {}) => ({ field: 'depth_km', type: 'quantitative' as const, scale: depthScale, title, axis: { grid: true, ...axis } });
   const colour = { field: 'colour', type: 'nominal' as const, scale: null };
   const tScale = { domain: [...data.temperatureRangeC], nice: false, zero: false };
@@ -189,7 +189,7 @@ export function fluxDiagramSpec(data: FluxDiagramData, options: FluxDiagramOptio
     width,
     height,
     encoding: {
-      x: { ...tx, title: 'Temperature (°C)', axis: { orient: 'top' as const, grid: true, tickCount: Math.max(3, Math.round(width / 70)) } },
+      x: { ...tx, title: words.axisTitle('t_c'), axis: { orient: 'top' as const, grid: true, tickCount: Math.max(3, Math.round(width / 70)) } },
       y: y(depthTitle),
     },
     layer: [
@@ -228,14 +228,14 @@ export function fluxDiagramSpec(data: FluxDiagramData, options: FluxDiagramOptio
         name: FLUX_MARKS.meltFill,
         data: { values: data.rows.melt },
         mark: { type: 'area' as const, orient: 'horizontal' as const, opacity: 0.16, clip: true },
-        encoding: { y: y(null, { labels: false, ticks: false }), x: { ...fx('Melt fraction'), stack: null }, color: colour, detail: { field: 'scenario', type: 'nominal' as const } },
+        encoding: { y: y(null, { labels: false, ticks: false }), x: { ...fx(words.axisTitle('f')), stack: null }, color: colour, detail: { field: 'scenario', type: 'nominal' as const } },
       },
       {
         name: FLUX_MARKS.melt,
         data: { values: data.rows.melt },
         mark: { type: 'line' as const, clip: true, strokeWidth: 2 },
         encoding: {
-          x: { ...fx('Melt fraction'), axis: { orient: 'top' as const, grid: true, tickCount: Math.max(2, Math.round(meltWidth / 45)), labelOverlap: 'greedy' as const, labelFlush: true } },
+          x: { ...fx(words.axisTitle('f')), axis: { orient: 'top' as const, grid: true, tickCount: Math.max(2, Math.round(meltWidth / 45)), labelOverlap: 'greedy' as const, labelFlush: true } },
           y: y(null, { labels: false, ticks: false }),
           order,
           color: colour,
@@ -256,18 +256,18 @@ export function fluxDiagramSpec(data: FluxDiagramData, options: FluxDiagramOptio
     height,
     data: { values: [{ depth_km: 0 }] },
     mark: { type: 'tick' as const, opacity: 0 },
-    encoding: { y: { ...y('Pressure (GPa)', { orient: 'right' as const, grid: false, values: pressureTicks(data.pressureMaxGpa).map((pg) => pg / gpaPerKm), labelExpr: `format(datum.value * ${gpaPerKm}, '.1~f')` }) } },
+    encoding: { y: { ...y(words.axisTitle('p_gpa'), { orient: 'right' as const, grid: false, values: pressureTicks(data.pressureMaxGpa).map((pg) => pg / gpaPerKm), labelExpr: `format(datum.value * ${gpaPerKm}, '.1~f')` }) } },
   };
   const keyWidth = width + meltWidth + 60;
   const threshold = (r: ProcessResult): string => {
     const t = r.values.water_threshold_ppm;
     if (t === null || t === undefined) return 'no water content melts it';
-    return t === 0 ? 'reaches the dry solidus: melts even dry' : `melts from ${formatNumber(t)} ppm water`;
+    return t === 0 ? 'reaches the dry solidus: melts even dry' : `melts from ${words.valueWithUnit('water_ppm', t)} water`;
   };
   const scenarioEntries: KeyEntry[] = data.labels.map((label, k) => ({
     tag: String(k + 1),
     swatch: { kind: 'line', colour: CATEGORICAL[k], width: 3 },
-    label: `${label} (${data.results[k].status === 'ok' ? `melt column ${formatNumber(data.results[k].values.melt_column_km ?? 0)} km` : data.results[k].status.replace('_', ' ')}; ${threshold(data.results[k])})`,
+    label: `${label} (${data.results[k].status === 'ok' ? `melt column ${words.valueWithUnit('melt_column_km', data.results[k].values.melt_column_km ?? 0)}` : data.results[k].status.replace('_', ' ')}; ${threshold(data.results[k])})`,
   }));
   const markEntries: KeyEntry[] = [
     { swatch: { kind: 'line', colour: REFERENCE, width: 1.4 }, label: 'dry solidus' },

@@ -18,7 +18,7 @@ import { cappedNote } from '../run/capped-rows.js';
 import { columnDiagramLayout } from './column-diagram.js';
 import { columnDiagramData, scenarioLabels, type DiagramScenario } from './column-diagram-data.js';
 import { htmlFigure, htmlPage, escapeHtml } from './html.js';
-import { labelOf, valueWithUnit } from './labels.js';
+import { labelsOfProcess, type FieldLabels } from './labels.js';
 
 /** Words for the representative picks in legends. */
 const WHICH: Readonly<Record<string, string>> = { min: 'smallest', median: 'median', max: 'largest' };
@@ -77,6 +77,8 @@ export async function buildHtmlReport(file: string, options: ReportOptions = {})
   const info = await readResultsInfo(file);
   const { meta, spec } = info;
   const opts = resolveReportOptions(options, spec, info.outputsWithValues, file);
+  // every word of the page about a field is that of the table's own process
+  const labels = labelsOfProcess(meta.process, spec.model);
   const capped = options.capped ?? 'include';
   const table = await readResultsColumns(file, opts.outputs, meta.rowEnd - meta.rowStart, meta.inputs.map((i) => i.name), capped);
   const notes = [...opts.notes];
@@ -103,8 +105,9 @@ export async function buildHtmlReport(file: string, options: ReportOptions = {})
     for (const output of opts.outputs) {
       const map = spec.design.kind === 'grid' ? gridSliceMap(table, spec, output, opts.x, opts.y, opts.at) : binnedMap(table, spec, output, opts.x, opts.y);
       const levels = opts.contours[output];
-      const contourText = levels === undefined ? '' : ` Contour lines at ${levels.map((v) => valueWithUnit(output, v)).join(', ')}.`;
-      maps.push(await figure('map', output, mapFigureLayout(map, { contours: levels }), `${output} over ${opts.x} and ${opts.y}: ${mapSubtitle(map)}. Grey cells with a stroke: no value.${contourText}`));
+      const contourText = levels === undefined ? '' : ` Contour lines at ${levels.map((v) => labels.valueWithUnit(output, v)).join(', ')}.`;
+      const caption = `${labels.heading(output)} (${output}) over the ${labels.label(opts.x)} and the ${labels.label(opts.y)}: ${mapSubtitle(map)}. Grey cells with a stroke: no value.${contourText}`;
+      maps.push(await figure('map', output, mapFigureLayout(map, { contours: levels }), caption));
     }
   }
 
@@ -118,14 +121,14 @@ export async function buildHtmlReport(file: string, options: ReportOptions = {})
     analysisNotes.push(...report.warnings, ...report.notes.filter((n) => n !== cappedText));
     const logInputs = new Set<string>(spec.axes.filter((a) => a.scale === 'log').map((a) => a.name));
     for (const output of opts.outputs) {
-      const bars = sensitivityBarsSpec(report.records, output, report.inputs);
-      const curves = mainEffectsSpec(report.mainEffects, output, logInputs);
+      const bars = sensitivityBarsSpec(report.records, output, report.inputs, { labels });
+      const curves = mainEffectsSpec(report.mainEffects, output, { labels, logInputs });
       const pair: string[] = [];
       const hasTotal = report.records.some((r) => r.output === output && r.measure === 'ST' && r.value !== null);
       const what = hasTotal ? 'First-order (S1) and total (ST) Sobol indices' : 'First-order Sobol indices (S1; total indices need a saltelli design or a grid)';
-      if (bars !== null) pair.push(await figure('indices', output, bars, `${what} of ${output}, ${report.design} design.`));
-      if (curves !== null) pair.push(await figure('main-effects', output, curves, `Mean of ${output} along each swept input.`));
-      if (pair.length > 0) sens.push(`<h3>${escapeHtml(output)}</h3>\n<div class="plots pair">\n${pair.join('\n')}\n</div>`);
+      if (bars !== null) pair.push(await figure('indices', output, bars, `${what} of the ${labels.label(output)} (${output}), ${report.design} design.`));
+      if (curves !== null) pair.push(await figure('main-effects', output, curves, `Mean of the ${labels.label(output)} (${output}) along each swept input.`));
+      if (pair.length > 0) sens.push(`${outputHeading(labels, output)}\n<div class="plots pair">\n${pair.join('\n')}\n</div>`);
     }
   }
 
@@ -145,12 +148,12 @@ export async function buildHtmlReport(file: string, options: ReportOptions = {})
       const auto = scenarioLabels(scenarios);
       const items: DiagramScenario[] = picks.map((p, k) => ({
         scenario: scenarios[k],
-        label: `${WHICH[p.which]} ${labelOf(repOutput)} ${valueWithUnit(repOutput, table.outputs[repOutput][p.row])}: ${auto[k]}`,
+        label: `${WHICH[p.which]}: ${labels.label(repOutput)} ${labels.valueWithUnit(repOutput, table.outputs[repOutput][p.row])}; ${auto[k]}`,
       }));
       const data = columnDiagramData(items, sweepModel(spec.model as DecompressionModelSpec, meta.params));
-      const plot = columnDiagramLayout(data, { title: `Representative columns: smallest, median and largest ${labelOf(repOutput)}`, subtitle: `among the ok rows of ${spec.name}` });
+      const plot = columnDiagramLayout(data, { title: representativeTitle(labels, repOutput), subtitle: `among the ok rows of ${spec.name}` });
       const wet = data.wetWaters.length > 0 ? ' Near the surface each wet solidus bends back to the dry one: the water the melt can hold falls to zero as pressure goes to zero, so the last kilometres melt as if dry.' : '';
-      columns.push(await figure('column', repOutput, plot, `Temperature and melt fraction against depth for the ok rows with the smallest, median and largest ${repOutput}. The key below the diagram explains the marks.${wet}`));
+      columns.push(await figure('column', repOutput, plot, `Temperature and melt fraction against depth for the ok rows with the smallest, median and largest ${labels.label(repOutput)} (${repOutput}). The key below the diagram explains the marks.${wet}`));
     } else {
       notes.push(`no ok row has a value of ${repOutput}: no representative columns`);
     }
@@ -164,14 +167,14 @@ export async function buildHtmlReport(file: string, options: ReportOptions = {})
       if (picks.length > 0) {
         const items = picks.map((p) => ({
           inputs: Object.fromEntries(meta.inputs.map((i) => [i.name, table.inputs[i.name][p.row]])),
-          label: `${WHICH[p.which]} ${labelOf(byOutput)} ${valueWithUnit(byOutput, table.outputs[byOutput][p.row])}`,
+          label: `${WHICH[p.which]}: ${labels.label(byOutput)} ${labels.valueWithUnit(byOutput, table.outputs[byOutput][p.row])}`,
         }));
         const fig = diagram.figure(items, proc.resolveModel(spec.model, { withProfile: true }), {
-          title: `Representative columns: smallest, median and largest ${labelOf(byOutput)}`,
+          title: representativeTitle(labels, byOutput),
           subtitle: `among the ok rows of ${spec.name}`,
         });
         notes.push(...fig.notes);
-        columns.push(await figure('column', byOutput, fig.layout, `The ${proc.title} for the ok rows with the smallest, median and largest ${byOutput}. The key below the diagram explains the marks.`));
+        columns.push(await figure('column', byOutput, fig.layout, `The ${proc.title} for the ok rows with the smallest, median and largest ${labels.label(byOutput)} (${byOutput}). The key below the diagram explains the marks.`));
       } else {
         notes.push(`no ok row has a value of ${byOutput}: no representative columns`);
       }
@@ -182,14 +185,24 @@ export async function buildHtmlReport(file: string, options: ReportOptions = {})
   const section = (heading: string, content: string): string => `<section class="card">\n<h2>${escapeHtml(heading)}</h2>\n${content}\n</section>`;
   const body = [
     `<header class="top"><h1>${escapeHtml(title)}</h1><p class="meta">${escapeHtml(path.basename(file))} · meltsweep ${escapeHtml(meta.toolVersion)} · sweep ${escapeHtml(meta.sweepHash.slice(0, 12))}</p></header>`,
-    section('Run', metadataSection(meta, spec, table)),
-    maps.length > 0 ? section(`Maps over ${opts.x} and ${opts.y}`, `<div class="plots">\n${maps.join('\n')}\n</div>`) : '',
+    section('Run', metadataSection(meta, spec, table, labels)),
+    maps.length > 0 && opts.x !== null && opts.y !== null ? section(`Maps over the ${labels.label(opts.x)} and the ${labels.label(opts.y)}`, `<div class="plots">\n${maps.join('\n')}\n</div>`) : '',
     sens.length > 0 ? section('Sensitivity', sens.join('\n')) : '',
     columns.length > 0 ? section('Representative columns', `<div class="plots wide">\n${columns.join('\n')}\n</div>`) : '',
     notes.length + analysisNotes.length > 0 ? section('Notes', notesHtml(notes, analysisNotes)) : '',
     `<footer>Model estimates from a one-dimensional parameterised melting model, not observations. Not a tool for volcanic hazard assessment.</footer>`,
   ].filter(Boolean);
   return { html: htmlPage(title, body.join('\n')), plots, notes: [...notes, ...analysisNotes], warnings, figures };
+}
+
+/** "Representative columns by crust thickness: smallest, median, largest". */
+function representativeTitle(labels: FieldLabels, output: string): string {
+  return `Representative columns by ${labels.label(output)}: smallest, median, largest`;
+}
+
+/** The heading of an output's sensitivity pictures: its label, its column name beside it. */
+function outputHeading(labels: FieldLabels, output: string): string {
+  return `<h3>${escapeHtml(labels.heading(output))} <code>${escapeHtml(output)}</code></h3>`;
 }
 
 function notesHtml(notes: readonly string[], analysisNotes: readonly string[]): string {

@@ -17,7 +17,7 @@
 import { contourLevels, type ContourLevel } from './map-contours.js';
 import { keyPanel, wrappedTitle, type FigureLayout, type KeyEntry } from './figure.js';
 import { textWidthPx } from './font.js';
-import { axisTitleOf, fieldInfo, formatNumber, labelOf, shortDescription, valueWithUnit } from './labels.js';
+import { formatNumber, labelsOfProcess, shortDescription, UNIT_SPACE } from './labels.js';
 import type { PlotSpec } from './render.js';
 import { mapSubtitle, type MapCell, type SweepMapData } from './sweep-map.js';
 import { HAIRLINE, HEATMAP_SCHEME, INK, NO_VALUE_FILL, PAPER } from './theme.js';
@@ -222,7 +222,8 @@ function labelPlaces(contours: readonly ContourLevel[], x: DrawAxis, y: DrawAxis
 export function sweepMapSpec(map: SweepMapData, options: MapFigureOptions = {}): PlotSpec {
   const width = Math.round(options.width ?? 300);
   const height = Math.round(options.height ?? width * 0.8);
-  const info = fieldInfo(map.output);
+  const labels = labelsOfProcess(map.process);
+  const info = labels.info(map.output);
   const { x, y } = drawAxes(map, width, height);
   const withValue = map.cells.filter((c) => c.value !== null);
   const without = map.cells.filter((c) => c.value === null);
@@ -232,8 +233,8 @@ export function sweepMapSpec(map: SweepMapData, options: MapFigureOptions = {}):
   const hi = values.length > 0 ? Math.max(...values) : 1;
   const xScale = { domain: [...x.domain], nice: false, zero: false };
   const yScale = { domain: [...y.domain], nice: false, zero: false };
-  const xEnc = { field: 'u0', type: 'quantitative' as const, title: axisTitleOf(map.x), scale: xScale, axis: x.axis };
-  const yEnc = { field: 'v0', type: 'quantitative' as const, title: axisTitleOf(map.y), scale: yScale, axis: y.axis };
+  const xEnc = { field: 'u0', type: 'quantitative' as const, title: labels.axisTitle(map.x), scale: xScale, axis: x.axis };
+  const yEnc = { field: 'v0', type: 'quantitative' as const, title: labels.axisTitle(map.y), scale: yScale, axis: y.axis };
   const at = (u: string, v: string) => ({ x: { field: u, type: 'quantitative' as const, scale: xScale }, y: { field: v, type: 'quantitative' as const, scale: yScale } });
   const layers: Record<string, unknown>[] = [];
   // empty layers are left out: an empty data set gives the scales an infinite extent
@@ -264,7 +265,7 @@ export function sweepMapSpec(map: SweepMapData, options: MapFigureOptions = {}):
         color: {
           field: 'value',
           type: 'quantitative',
-          title: axisTitleOf(map.output),
+          title: labels.axisTitle(map.output),
           scale: { scheme: HEATMAP_SCHEME, zero: false, nice: false, domain: lo === hi ? [lo - 0.5, hi + 0.5] : [lo, hi] },
           // a colour bar under the map, as wide as the map: the map keeps the width of a journal column
           legend: { orient: 'bottom', direction: 'horizontal', gradientLength: width, gradientThickness: 10, format: '.4~r', titleLimit: width, titlePadding: 4, offset: 10 },
@@ -287,7 +288,7 @@ export function sweepMapSpec(map: SweepMapData, options: MapFigureOptions = {}):
     const segEnc = { ...at('u1', 'v1'), x2: { field: 'u2' }, y2: { field: 'v2' } };
     layers.push({ name: MAP_MARKS.contourHalo, data: { values: segments }, mark: { type: 'rule', stroke: PAPER, strokeWidth: 3.4, strokeCap: 'round', opacity: 0.85 }, encoding: segEnc });
     layers.push({ name: MAP_MARKS.contours, data: { values: segments }, mark: { type: 'rule', stroke: INK, strokeWidth: 1.5, strokeCap: 'round' }, encoding: segEnc });
-    const places = labelPlaces(contours, x, y, width, height, (level) => valueWithUnit(map.output, level));
+    const places = labelPlaces(contours, x, y, width, height, (level) => labels.valueWithUnit(map.output, level));
     const text = { ...at('u', 'v'), text: { field: 'text', type: 'nominal' as const } };
     const textMark = { type: 'text', fontSize: CONTOUR_LABEL_SIZE, fontWeight: 600, baseline: 'middle', align: 'center' };
     layers.push({ data: { values: places }, mark: { ...textMark, stroke: PAPER, strokeWidth: 3.5, strokeJoin: 'round', color: PAPER }, encoding: text });
@@ -299,8 +300,8 @@ export function sweepMapSpec(map: SweepMapData, options: MapFigureOptions = {}):
   if (options.contours !== undefined && options.contours.length > 0) {
     const drawn = contours.filter((c) => c.segments.length > 0).map((c) => formatNumber(c.level));
     const missing = contours.filter((c) => c.segments.length === 0).map((c) => formatNumber(c.level));
-    const unit = info.displayUnit === '' ? '' : ` ${info.displayUnit}`;
-    const text = drawn.length > 0 ? `contour${drawn.length > 1 ? 's' : ''} of ${labelOf(map.output)} at ${drawn.join(', ')}${unit}` : `no contour of ${labelOf(map.output)} in the map`;
+    const unit = info.displayUnit === '' ? '' : `${UNIT_SPACE}${info.displayUnit}`;
+    const text = drawn.length > 0 ? `contour${drawn.length > 1 ? 's' : ''} of ${labels.label(map.output)} at ${drawn.join(', ')}${unit}` : `no contour of ${labels.label(map.output)} in the map`;
     entries.push({ swatch: { kind: 'line', colour: INK, width: 1.5 }, label: missing.length > 0 ? `${text} (${missing.join(', ')}${unit}: outside the values shown)` : text });
   }
   if (without.length > 0) {

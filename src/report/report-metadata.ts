@@ -8,7 +8,7 @@ import { PARAM_INFO, PARAM_NAMES } from '../physics/params.js';
 import { COLUMN_STATUSES } from '../physics/types.js';
 import type { SweepSpec } from '../spec/types.js';
 import { escapeHtml, htmlTable } from './html.js';
-import { fieldInfo, formatNumber } from './labels.js';
+import { formatNumber, type FieldLabels } from './labels.js';
 import type { ResultsColumns } from './results-columns.js';
 import { CATEGORICAL } from './theme.js';
 
@@ -40,6 +40,18 @@ function listValues(values: readonly number[]): string {
   return shown.join(', ');
 }
 
+/** A parameter unit as printed: "°C/GPa²" for "degC/GPa^2", "kg/m³", "wt%/GPa^λ" ("" for a number without unit). */
+export function printedUnit(unit: string): string {
+  if (unit === '-') return '';
+  return unit
+    .replace(/degC/g, '°C')
+    .replace(/\^2\b/g, '²')
+    .replace(/(m|s)3\b/g, '$1³')
+    .replace(/(m|s)2\b/g, '$1²')
+    .replace(/\^gamma\b/g, '^γ')
+    .replace(/\^lambda\b/g, '^λ');
+}
+
 /** The process and its options in words ("thermal auto, water batch, step 0.05 GPa" for decompression). */
 function modelText(spec: SweepSpec): string {
   const process = processOfSpec(spec);
@@ -48,7 +60,9 @@ function modelText(spec: SweepSpec): string {
 }
 
 /** The HTML of the Run section. */
-export function metadataSection(meta: ResultsTableMeta, spec: SweepSpec, table: ResultsColumns): string {
+export function metadataSection(meta: ResultsTableMeta, spec: SweepSpec, table: ResultsColumns, labels: FieldLabels): string {
+  // an input as a reader knows it, with the column name of the table beside it
+  const inputName = (name: string): string => `${labels.heading(name)} (${name})`;
   const rowsInFile = meta.rowEnd - meta.rowStart;
   const summary = htmlTable(
     ['', ''],
@@ -63,14 +77,14 @@ export function metadataSection(meta: ResultsTableMeta, spec: SweepSpec, table: 
   );
   const axes = htmlTable(
     ['input', 'unit', spec.design.kind === 'grid' ? 'values' : 'range', 'scale'],
-    spec.axes.map((a) => [a.name, fieldInfo(a.name).unit, spec.design.kind === 'grid' ? listValues(a.values) : `${formatNumber(a.min)} to ${formatNumber(a.max)}`, a.scale]),
+    spec.axes.map((a) => [inputName(a.name), labels.unit(a.name), spec.design.kind === 'grid' ? listValues(a.values) : `${formatNumber(a.min)} to ${formatNumber(a.max)}`, a.scale]),
   );
   const swept = new Set<string>(spec.axes.map((a) => a.name));
   const fixed = htmlTable(
     ['input', 'value', 'unit'],
     inputsOfSpec(spec).map((i) => i.name).filter((n) => !swept.has(n)).map((n) => {
       const v = spec.fixed[n];
-      return [n, v === undefined ? 'not given' : formatNumber(v), fieldInfo(n).unit];
+      return [inputName(n), v === undefined ? 'not given' : formatNumber(v), labels.unit(n)];
     }),
   );
   const total = Math.max(1, table.rows);
@@ -86,7 +100,7 @@ export function metadataSection(meta: ResultsTableMeta, spec: SweepSpec, table: 
     PARAM_NAMES.map((n) => {
       const v = meta.params[n];
       const changed = v !== PARAM_INFO[n].value;
-      return [n, `${formatNumber(v)}${changed ? ` (default ${formatNumber(PARAM_INFO[n].value)})` : ''}`, PARAM_INFO[n].unit, PARAM_INFO[n].description];
+      return [n, `${formatNumber(v)}${changed ? ` (default ${formatNumber(PARAM_INFO[n].value)})` : ''}`, printedUnit(PARAM_INFO[n].unit), PARAM_INFO[n].description];
     }),
     'data params',
   );

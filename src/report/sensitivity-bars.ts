@@ -4,7 +4,7 @@
  * each input). The numbers come from the sensitivity analysis (src/analyze), unchanged.
  */
 import type { MainEffectCurve, SensitivityRecord } from '../analyze/types.js';
-import { axisTitleOf, capitalise, labelOf } from './labels.js';
+import type { FieldLabels } from './labels.js';
 import type { PlotSpec } from './render.js';
 import { INK, MEASURE_COLOURS } from './theme.js';
 
@@ -34,15 +34,16 @@ const MEASURE_LABELS = { S1: 'first order (S1)', ST: 'total (ST)' } as const;
  * Bars of S1 and ST per input for one output, with whiskers for the bootstrap intervals where the
  * design gives them. Returns null when no index has a value.
  */
-export function sensitivityBarsSpec(records: readonly SensitivityRecord[], output: string, inputs: readonly string[], options: { readonly width?: number } = {}): PlotSpec | null {
+export function sensitivityBarsSpec(records: readonly SensitivityRecord[], output: string, inputs: readonly string[], options: { readonly labels: FieldLabels; readonly width?: number }): PlotSpec | null {
+  const { labels } = options;
   const bars = indexBars(records, output);
   if (bars.length === 0) return null;
   const measures = (['S1', 'ST'] as const).filter((m) => bars.some((b) => b.measure === m));
-  const rows = bars.map((b) => ({ ...b, input: capitalise(labelOf(b.input)), measure: MEASURE_LABELS[b.measure] }));
+  const rows = bars.map((b) => ({ ...b, input: labels.heading(b.input), measure: MEASURE_LABELS[b.measure] }));
   const intervals = rows.filter((b) => b.ci_low !== null && b.ci_high !== null);
   const lo = Math.min(0, ...bars.map((b) => Math.min(b.value, b.ci_low ?? b.value)));
   const hi = Math.max(1, ...bars.map((b) => Math.max(b.value, b.ci_high ?? b.value)));
-  const y = { field: 'input', type: 'nominal' as const, sort: inputs.map((n) => capitalise(labelOf(n))), title: null, axis: { labelFontSize: 11, labelColor: INK, ticks: false, domain: false, labelPadding: 6 } };
+  const y = { field: 'input', type: 'nominal' as const, sort: inputs.map((n) => labels.heading(n)), title: null, axis: { labelFontSize: 11, labelColor: INK, ticks: false, domain: false, labelPadding: 6 } };
   const yOffset = { field: 'measure', type: 'nominal' as const, sort: measures.map((m) => MEASURE_LABELS[m]) };
   const x = { type: 'quantitative' as const, title: 'Sobol index', scale: { domain: [lo, hi], nice: false }, axis: { grid: true, tickCount: 5 } };
   const colour = {
@@ -70,7 +71,7 @@ export function sensitivityBarsSpec(records: readonly SensitivityRecord[], outpu
   }
   const spec = {
     $schema: 'https://vega.github.io/schema/vega-lite/v6.json',
-    title: { text: `Sobol indices of the ${labelOf(output)}`, subtitle: intervals.length > 0 ? 'bars: index; whiskers: bootstrap interval' : 'no intervals for this design' },
+    title: { text: `Sobol indices of the ${labels.label(output)}`, subtitle: intervals.length > 0 ? 'bars: index; whiskers: bootstrap interval' : 'no intervals for this design' },
     width: options.width ?? 280,
     height: inputs.length * (12 * measures.length + 14),
     layer: layers,
@@ -83,15 +84,21 @@ export function sensitivityBarsSpec(records: readonly SensitivityRecord[], outpu
  * shared y axis in the output's unit). Grids: one point per axis value; other designs: bin means.
  * Returns null when no curve has a value.
  */
-export function mainEffectsSpec(curves: readonly MainEffectCurve[], output: string, logInputs: ReadonlySet<string> = new Set(), options: { readonly panelWidth?: number; readonly height?: number } = {}): PlotSpec | null {
+export function mainEffectsSpec(
+  curves: readonly MainEffectCurve[],
+  output: string,
+  options: { readonly labels: FieldLabels; readonly logInputs?: ReadonlySet<string>; readonly panelWidth?: number; readonly height?: number },
+): PlotSpec | null {
+  const { labels } = options;
+  const logInputs = options.logInputs ?? new Set<string>();
   const mine = curves.filter((c) => c.output === output && c.mean.some((m) => Number.isFinite(m)));
   if (mine.length === 0) return null;
-  const yTitle = axisTitleOf(output);
+  const yTitle = labels.axisTitle(output);
   const panels = mine.map((c, k) => {
     const points = c.x.map((x, i) => ({ x, mean: c.mean[i], count: c.count[i] })).filter((q) => Number.isFinite(q.mean) && Number.isFinite(q.x));
     const log = logInputs.has(c.input) && points.every((q) => q.x > 0);
     const enc = {
-      x: { field: 'x', type: 'quantitative' as const, title: axisTitleOf(c.input), scale: { type: log ? ('log' as const) : ('linear' as const), zero: false, nice: true }, axis: { tickCount: 4, grid: false, labelOverlap: 'greedy' as const, labelFlush: true } },
+      x: { field: 'x', type: 'quantitative' as const, title: labels.axisTitle(c.input), scale: { type: log ? ('log' as const) : ('linear' as const), zero: false, nice: true }, axis: { tickCount: 4, grid: false, labelOverlap: 'greedy' as const, labelFlush: true } },
       y: { field: 'mean', type: 'quantitative' as const, title: k === 0 ? yTitle : null, scale: { zero: false }, axis: { tickCount: 5, grid: true, labels: k === 0 } },
     };
     return {
@@ -106,7 +113,7 @@ export function mainEffectsSpec(curves: readonly MainEffectCurve[], output: stri
   });
   const spec = {
     $schema: 'https://vega.github.io/schema/vega-lite/v6.json',
-    title: { text: `Main effects on the ${labelOf(output)}`, subtitle: `mean along each input${mine[0].binned ? ', in quantile bins' : ', at each grid value'}` },
+    title: { text: `Main effects on the ${labels.label(output)}`, subtitle: `mean along each input${mine[0].binned ? ', in quantile bins' : ', at each grid value'}` },
     hconcat: panels,
     spacing: 14,
     resolve: { scale: { y: 'shared' as const } },

@@ -8,7 +8,8 @@
  * The picture of a map is map-figure.ts; its contours are map-contours.ts.
  */
 import type { AxisSpec, SweepSpec } from '../spec/types.js';
-import { fixedValueLabel } from './labels.js';
+import { processNameOf } from '../process/registry.js';
+import { labelsOfProcess } from './labels.js';
 import type { ResultsColumns } from './results-columns.js';
 
 /** One cell of a map: its column and row, its centre, its edges and its value (null: no finite value). */
@@ -29,6 +30,8 @@ export interface MapCell {
 
 /** A map ready to draw. */
 export interface SweepMapData {
+  /** the process of the results (its registry gives the labels and units of the picture) */
+  readonly process: string;
   readonly output: string;
   readonly x: string;
   readonly y: string;
@@ -128,7 +131,7 @@ export function gridSliceMap(table: ResultsColumns, spec: SweepSpec, output: str
       cells.push({ i, j, x: xv, y: yv, x0: xe[i], x1: xe[i + 1], y0: ye[j], y1: ye[j + 1], value: cnt[k] > 0 ? sum[k] / cnt[k] : null, n: cnt[k] });
     }),
   );
-  return { output, x, y, xLog: ax.scale === 'log', yLog: ay.scale === 'log', mode: 'slice', at: others, nx: xs.length, ny: ys.length, xValues: xs, yValues: ys, cells };
+  return { process: processNameOf(spec), output, x, y, xLog: ax.scale === 'log', yLog: ay.scale === 'log', mode: 'slice', at: others, nx: xs.length, ny: ys.length, xValues: xs, yValues: ys, cells };
 }
 
 /** Bins per axis for n samples: about four samples per cell, 3 to 24 bins. */
@@ -196,11 +199,13 @@ export function binnedMap(table: ResultsColumns, spec: SweepSpec, output: string
   const xLog = ax.scale === 'log' && ax.min > 0;
   const yLog = ay.scale === 'log' && ay.min > 0;
   const centres = (e: readonly number[], log: boolean) => Array.from({ length: bins }, (_, i) => mid(e, i, log));
-  return { output, x, y, xLog, yLog, mode: 'binned', at: [], nx: bins, ny: bins, xValues: centres(xe, xLog), yValues: centres(ye, yLog), cells };
+  return { process: processNameOf(spec), output, x, y, xLog, yLog, mode: 'binned', at: [], nx: bins, ny: bins, xValues: centres(xe, xLog), yValues: centres(ye, yLog), cells };
 }
 
 /** A subtitle saying what the map shows. */
 export function mapSubtitle(map: SweepMapData): string {
+  const labels = labelsOfProcess(map.process);
+  const fixedValueLabel = (name: string, value: number): string => labels.fixedValue(name, value);
   if (map.mode === 'binned' && map.at.length > 0) return `slice at ${map.at.map((a) => fixedValueLabel(a.name, a.value)).join(', ')}; mean of the grid points in each cell`;
   if (map.mode === 'binned') return `mean of the samples in each cell; the other inputs vary within a cell`;
   return map.at.length === 0 ? 'every grid point' : `slice at ${map.at.map((a) => fixedValueLabel(a.name, a.value)).join(', ')}`;

@@ -73,8 +73,9 @@ export function plotConfig(): Config {
       gridColor: GRID,
       gridWidth: 1,
       labelPadding: 3,
-      format: NUMBER_FORMAT,
     },
+    // numbers only: a number format on a category axis turns its labels into "NaN"
+    axisQuantitative: { format: NUMBER_FORMAT },
     header: { labelColor: INK, labelFontSize: 11.5, labelFontWeight: 500, titleFontSize: 12 },
     legend: {
       labelColor: MUTED,

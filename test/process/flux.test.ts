@@ -162,6 +162,6 @@ describe('the arc example (sweeps/arc-a2-flux.yaml)', () => {
     expect(page).toContain('data-output="melt_column_km"');
     // the representative columns are drawn by the process's own diagram
     expect(page).toContain('data-plot="column"');
-    expect(page).toContain('Representative columns: smallest, median and largest melt column');
+    expect(page).toContain('Representative columns by melt column: smallest, median, largest');
   });
 });

@@ -18,7 +18,7 @@ describe('column diagram data', () => {
 
   it('draws the curves of the melting functions, the wet solidus for each water content', () => {
     expect(data.curveNames).toEqual([DRY_SOLIDUS, wetSolidusName(200), LHERZ_LIQUIDUS]);
-    expect(wetSolidusName(200)).toBe('wet solidus, 200 ppm');
+    expect(wetSolidusName(200)).toBe('wet solidus, 200\u00a0ppm');
     for (const c of data.curves.filter((_, i) => i % 17 === 0)) {
       const pg = pGpaFromDepthKm(c.depth_km, p.rho_s, p.g);
       const expected = c.curve === DRY_SOLIDUS ? drySolidusC(pg, p) : c.curve === LHERZ_LIQUIDUS ? lherzLiquidusC(pg, p) : wetSolidusC(pg, 0.02, p);
@@ -48,7 +48,7 @@ describe('column diagram data', () => {
   });
 
   it('labels scenarios by the inputs that differ, with units from the registry', () => {
-    expect(data.scenarios.map((s) => s.label)).toEqual(['Tp 1300 °C, water 0 ppm', 'Tp 1400 °C, water 200 ppm']);
+    expect(data.scenarios.map((s) => s.label)).toEqual(['Tp 1300\u00a0°C, water 0\u00a0ppm', 'Tp 1400\u00a0°C, water 200\u00a0ppm']);
   });
 
   it('draws the conductive profile, lid included, for a conductive column', () => {
@@ -73,7 +73,7 @@ describe('column diagram SVG', () => {
     expect(markGroups(r.svg, COLUMN_MARKS.conductive)).toBe(0);
     // dry solidus, one wet solidus (100 ppm), lherzolite liquidus
     expect(markGroups(r.svg, COLUMN_MARKS.curves)).toBe(3);
-    for (const name of ['dry solidus', 'wet solidus, 100 ppm', 'lherzolite liquidus', 'Tp 1400 °C, water 100 ppm, lid 15 km']) expect(r.svg).toContain(`>${name}</text>`);
+    for (const name of ['dry solidus', 'wet solidus, 100\u00a0ppm', 'lherzolite liquidus', 'Tp 1400\u00a0°C, water 100\u00a0ppm, lid 15\u00a0km']) expect(r.svg).toContain(`>${name}</text>`);
     const titles = axisTitles(r.svg);
     expect(titles).toContain('Temperature (°C)');
     expect(titles).toContain('Depth (km)');

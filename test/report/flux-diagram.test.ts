@@ -17,7 +17,7 @@ describe('flux diagram', () => {
   it('bands only where the geotherm is above the wet solidus; dots at the deepest and shallowest melting', () => {
     const data = fluxDiagramData([sc(1300, 500, 70, 110), sc(1300, 20, 70, 110), sc(1380, 3000, 40, 150)], model('balanced'));
     expect(data.results.map((r) => r.status)).toEqual(['ok', 'no_melt', 'ok']);
-    expect(data.labels).toEqual(['Tp 1300 °C, water 500 ppm, plate 70 km, slab 110 km', 'Tp 1300 °C, water 20 ppm, plate 70 km, slab 110 km', 'Tp 1380 °C, water 3000 ppm, plate 40 km, slab 150 km']);
+    expect(data.labels).toEqual(['Tp 1300\u00a0°C, water 500\u00a0ppm, plate 70\u00a0km, slab 110\u00a0km', 'Tp 1300\u00a0°C, water 20\u00a0ppm, plate 70\u00a0km, slab 110\u00a0km', 'Tp 1380\u00a0°C, water 3000\u00a0ppm, plate 40\u00a0km, slab 150\u00a0km']);
     for (const b of data.rows.band) expect((b.t_hi as number) - (b.t_lo as number)).toBeGreaterThanOrEqual(-1e-9);
     expect(data.rows.band.some((b) => b.scenario === data.labels[1])).toBe(false);
     const ends = data.rows.ends.filter((e) => e.scenario === data.labels[0]);

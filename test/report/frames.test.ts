@@ -82,7 +82,7 @@ describe('column diagram frames', () => {
     expect(r.data.temperatureRangeC[0]).toBeLessThanOrEqual(DEFAULT_PARAMS.T_surface);
     expect(Math.max(...prof.map((q) => q.depth_km))).toBeGreaterThan(r.data.onsets[0].depth_km);
     // the default title names the held inputs, the key explains the wet solidus near the surface
-    expect(r.svg).toContain('Melting column at potential temperature 1350 °C');
+    expect(r.svg).toContain('Melting column at potential temperature 1350\u00a0°C');
     expect(r.svg).toMatch(/wet solidus rejoins the dry one/);
     expect(r.svg).not.toMatch(/degC|,\d{3}</);
   });

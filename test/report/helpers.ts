@@ -25,6 +25,12 @@ export function axisTitles(svg: string): string[] {
   return [...svg.matchAll(/aria-label="[XY]-axis titled '([^']*)'/g)].map((m) => m[1]);
 }
 
+/** Every text of an SVG in document order (entities decoded), e.g. axis labels and titles. */
+export function svgTexts(svg: string): string[] {
+  const decode = (t: string): string => t.replace(/&lt;/g, '<').replace(/&gt;/g, '>').replace(/&quot;/g, '"').replace(/&#39;/g, "'").replace(/&amp;/g, '&');
+  return [...svg.matchAll(/<text[^>]*>([^<]*)<\/text>/g)].map((m) => decode(m[1]));
+}
+
 /** A 45-point isentropic grid (Tp x water x lid) written to dir/name. */
 export async function gridSweepFile(dir: string, name = 'grid.arrow'): Promise<string> {
   const spec = validateSweep({

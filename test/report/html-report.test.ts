@@ -5,7 +5,9 @@ import { InputError } from '../../src/errors.js';
 import { buildHtmlReport, writeHtmlReport } from '../../src/report/html-report.js';
 import { parseAtOption } from '../../src/report/report-options.js';
 import { tmpDir } from '../helpers.js';
-import { axisTitles, gridSweepFile, ids, markGroups, saltelliSweepFile, xmlProblem } from './helpers.js';
+import { runSweep } from '../../src/run/run-sweep.js';
+import { validateSweep } from '../../src/spec/index.js';
+import { axisTitles, gridSweepFile, ids, markGroups, saltelliSweepFile, svgTexts, xmlProblem } from './helpers.js';
 
 const dir = tmpDir('report');
 afterAll(() => fs.rmSync(dir, { recursive: true, force: true }));
@@ -21,6 +23,39 @@ beforeAll(async () => {
 function figures(html: string): { kind: string; output: string | null; svg: string }[] {
   return [...html.matchAll(/<figure class="plot" data-plot="([a-z-]+)"(?: data-output="([^"]*)")?>\s*(<svg[\s\S]*?<\/svg>)/g)].map((m) => ({ kind: m[1], output: m[2] ?? null, svg: m[3] }));
 }
+
+describe('HTML report of a flux table', () => {
+  it("uses the flux process's own labels in every axis, key, table, heading and title", async () => {
+    const spec = validateSweep({
+      name: 'arc segment A-9 test grid',
+      axes: { water_ppm: { values: [300, 3000, 12000] }, lid_km: { values: [50, 70, 90] } },
+      fixed: { tp_c: 1380, slab_depth_km: 130 },
+      model: { process: 'flux' },
+    });
+    const file = path.join(dir, 'flux.arrow');
+    await runSweep({ spec, outPath: file, workers: 2 });
+    const report = await buildHtmlReport(file, { outputs: ['melt_column_km', 'f_max'] });
+    expect(report.warnings).toEqual([]);
+    const html = report.html;
+    const figs = figures(html);
+    const map = figs.find((f) => f.kind === 'map' && f.output === 'melt_column_km')!.svg;
+    expect(axisTitles(map)).toEqual(['Wedge water (ppm)', 'Plate thickness (km)']);
+    expect(svgTexts(map)).toContain('Melt column (km)');
+    const effects = figs.find((f) => f.kind === 'main-effects' && f.output === 'melt_column_km')!.svg;
+    expect(axisTitles(effects)).toEqual(expect.arrayContaining(['Wedge water (ppm)', 'Plate thickness (km)', 'Melt column (km)']));
+    const bars = figs.find((f) => f.kind === 'indices' && f.output === 'melt_column_km')!.svg;
+    expect(svgTexts(bars)).toEqual(expect.arrayContaining(['Wedge water', 'Plate thickness']));
+    const column = figs.find((f) => f.kind === 'column')!.svg;
+    expect(svgTexts(column).join(' ')).toContain('Representative columns by melt column: smallest, median, largest');
+    for (const text of ['<td>Plate thickness (lid_km)</td><td>km</td>', '<td>Wedge potential temperature (tp_c)</td>', '<td>Slab depth (slab_depth_km)</td>', '<h2>Maps over the wedge water and the plate thickness</h2>']) expect(html).toContain(text);
+    // the decompression words for the same column names appear nowhere
+    for (const f of figs) {
+      const words = svgTexts(f.svg).join(' ');
+      for (const wrong of ['Lid thickness', 'lid thickness', 'Source water', 'source water', 'Potential temperature (']) expect(words, `${f.kind} ${f.output}`).not.toContain(wrong);
+    }
+    for (const wrong of ['Lid thickness', 'Source water', 'Potential temperature']) expect(html).not.toContain(wrong);
+  });
+});
 
 describe('HTML report of a grid sweep', () => {
   it('is one well-formed, self-contained page with every picture and the run metadata', async () => {
@@ -44,16 +79,19 @@ describe('HTML report of a grid sweep', () => {
     // maps: the first two swept inputs, lid at its middle value; units from the registry
     const crustMap = figs.find((f) => f.kind === 'map' && f.output === 'crust_km')!.svg;
     expect(axisTitles(crustMap)).toEqual(['Potential temperature (°C)', 'Source water (ppm)']);
-    expect(crustMap).toContain('lid thickness 10 km');
+    expect(crustMap).toContain('lid thickness 10\u00a0km');
     expect(markGroups(crustMap, 'map_cells')).toBe(1);
     expect(crustMap.split('aria-roledescription="rect mark"').length - 1).toBeGreaterThanOrEqual(15);
     // representative columns: min, median and max crust among ok rows, three paths
     const column = figs.find((f) => f.kind === 'column')!.svg;
     expect(markGroups(column, 'melting_path')).toBe(3);
-    expect(column).toMatch(/>smallest crust thickness [0-9.]+ km: /);
-    expect(column).toMatch(/>largest crust thickness [0-9.]+ km: /);
+    expect(column).toMatch(/>smallest: crust thickness [0-9.]+\u00a0km; /);
+    expect(column).toMatch(/>largest: crust thickness [0-9.]+\u00a0km; /);
     // run metadata
-    for (const text of ['ridge segment R-7 test grid', 'grid, 5 × 3 × 3', '<td>45</td>', '<td>ok</td>', '<td>M_cpx</td>', '<td>upwelling_mm_yr</td>']) expect(html).toContain(text);
+    for (const text of ['ridge segment R-7 test grid', 'grid, 5 × 3 × 3', '<td>45</td>', '<td>ok</td>', '<td>M_cpx</td>', '<td>Upwelling rate (upwelling_mm_yr)</td>', '<td>Potential temperature (tp_c)</td><td>°C</td>']) expect(html).toContain(text);
+    // no unit as the sweep file spells it, no column name as a heading
+    expect(html).not.toContain('degC');
+    expect(html).toContain('<h2>Maps over the potential temperature and the source water</h2>');
   });
 
   it('follows --x, --y, --at and --outputs', async () => {
@@ -62,7 +100,7 @@ describe('HTML report of a grid sweep', () => {
     expect(figs.filter((f) => f.kind === 'map')).toHaveLength(1);
     const map = figs.find((f) => f.kind === 'map')!.svg;
     expect(axisTitles(map)).toEqual(['Lid thickness (km)', 'Potential temperature (°C)']);
-    expect(map).toContain('source water 100 ppm');
+    expect(map).toContain('source water 100\u00a0ppm');
     expect(figs.find((f) => f.kind === 'column')!.svg).toContain('largest melt fraction');
   });
 

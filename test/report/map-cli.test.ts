@@ -108,7 +108,7 @@ describe('meltsweep report --contour and --figures', () => {
     expect(r.status).toBe(0);
     expect(r.stdout).toContain('(4 pictures)');
     expect(r.stdout).toContain(`figures: 12 files in ${figs}`);
-    expect(fs.readFileSync(html, 'utf8')).toContain('Contour lines at 7 km.');
+    expect(fs.readFileSync(html, 'utf8')).toContain('Contour lines at 7\u00a0km.');
     const files = fs.readdirSync(figs).sort();
     expect(files).toEqual(
       ['01-map-crust_km', '02-indices-crust_km', '03-main-effects-crust_km', '04-column-crust_km'].flatMap((s) => [`${s}.pdf`, `${s}.png`, `${s}.svg`]),

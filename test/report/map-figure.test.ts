@@ -202,8 +202,8 @@ describe('contours', () => {
     const r = await renderSvg(sweepMapSpec(map, { contours: [3.5], width, height }));
     expect(r.warnings).toEqual([]);
     expect(pointsOutsideFrame(r.svg, ALL_MARKS)).toEqual([]);
-    expect(layerTexts(r.svg, MAP_MARKS.contourLabels)).toEqual(['3.5 km']);
-    expect(r.svg).toContain('contour of crust thickness at 3.5 km');
+    expect(layerTexts(r.svg, MAP_MARKS.contourLabels)).toEqual(['3.5\u00a0km']);
+    expect(r.svg).toContain('contour of crust thickness at 3.5\u00a0km');
     // page px -> cell units: category axes, cell k centred at (k + 0.5) / 5 of the frame; y grows upward
     const points = markPoints(r.svg, [MAP_MARKS.contours]);
     expect(points.length).toBeGreaterThan(4);

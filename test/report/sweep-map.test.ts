@@ -5,8 +5,6 @@ import { binnedMap, cellEdges, gridSliceMap, MAX_MAP_CELLS, middleValue } from '
 import { sweepMapSpec } from '../../src/report/map-figure.js';
 import type { ResultsColumns } from '../../src/report/results-columns.js';
 import { renderSvg } from '../../src/report/render.js';
-import { sensitivityBarsSpec, mainEffectsSpec } from '../../src/report/sensitivity-bars.js';
-import type { SensitivityRecord } from '../../src/analyze/types.js';
 import { axisTitles, markGroups, xmlProblem } from './helpers.js';
 
 /** A table of rows in grid order over the given axes, with output y = f(row inputs). */
@@ -94,38 +92,5 @@ describe('sweep maps', () => {
       expect(xmlProblem(r.svg)).toBeNull();
       expect(r.warnings).toEqual([]);
     }
-  });
-});
-
-describe('sensitivity pictures', () => {
-  const rec = (input: string, measure: 'S1' | 'ST', value: number | null, ci: [number, number] | null = null): SensitivityRecord => ({
-    output: 'crust_km', input, measure, value, ci_low: ci?.[0] ?? null, ci_high: ci?.[1] ?? null, n: 32,
-  });
-
-  it('draws S1 and ST bars with intervals where the design gives them', async () => {
-    const records = [rec('tp_c', 'S1', 0.8, [0.7, 0.9]), rec('tp_c', 'ST', 0.85, [0.75, 0.95]), rec('water_ppm', 'S1', 0.1, [0, 0.2]), rec('water_ppm', 'ST', 0.15, [0.05, 0.25])];
-    const r = await renderSvg(sensitivityBarsSpec(records, 'crust_km', ['tp_c', 'water_ppm'])!);
-    expect(xmlProblem(r.svg)).toBeNull();
-    expect(r.warnings).toEqual([]);
-    expect(r.svg.split('aria-roledescription="bar"').length - 1).toBe(4);
-    expect(markGroups(r.svg, 'index_intervals')).toBe(1);
-    expect(r.svg).toContain('first order (S1)');
-    expect(r.svg).toContain('total (ST)');
-  });
-
-  it('leaves out indices without a value and returns null when none has one', () => {
-    expect(sensitivityBarsSpec([rec('tp_c', 'S1', null), rec('tp_c', 'ST', null)], 'crust_km', ['tp_c'])).toBeNull();
-    expect(mainEffectsSpec([], 'crust_km')).toBeNull();
-  });
-
-  it('draws one main-effect panel per input with its unit', async () => {
-    const curves = [
-      { output: 'crust_km', input: 'tp_c', binned: false, x: [1300, 1400], mean: [5, 10], count: [3, 3] },
-      { output: 'crust_km', input: 'water_ppm', binned: false, x: [0, 100], mean: [7, 8], count: [3, 3] },
-    ];
-    const r = await renderSvg(mainEffectsSpec(curves, 'crust_km')!);
-    expect(xmlProblem(r.svg)).toBeNull();
-    expect(markGroups(r.svg, 'main_effect_line_0') + markGroups(r.svg, 'main_effect_line_1')).toBe(2);
-    expect(axisTitles(r.svg)).toEqual(expect.arrayContaining(['Potential temperature (°C)', 'Source water (ppm)', 'Crust thickness (km)']));
   });
 });
