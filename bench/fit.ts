@@ -20,8 +20,8 @@ import { INPUT_FIELDS, INPUT_NAMES, RESULT_NUMERIC_FIELDS, RESULT_NUMERIC_NAMES 
 import { DEFAULT_PARAMS } from '../src/physics/params.js';
 import { planSweep } from '../src/plan/index.js';
 import type { ChunkResult } from '../src/run/compute-chunk.js';
-import { fitResultsFile, priorOf } from '../src/run/fit-file.js';
-import { writeFitTable } from '../src/run/fit-output.js';
+import { fitResultsFile, priorOf } from '../src/io/fit-file.js';
+import { writeFitTable } from '../src/io/fit-output.js';
 import { sweepHash } from '../src/spec/index.js';
 import { bigSweepSpec } from './big-sweep.js';
 import { formatBench, isMain, measureRates, summarise, type BenchResult } from './util.js';

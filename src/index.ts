@@ -89,7 +89,7 @@ export type { ProgressSink } from './run/progress.js';
 // ---- sensitivity ---------------------------------------------------------------------------
 export { analyzeSensitivity, formatSensitivitySummary } from './analyze/index.js';
 export type { AnalysisLayout, SensitivityInput, SensitivityOptions, SensitivityRecord, SensitivityReport } from './analyze/index.js';
-export { analyzeResultsFile, writeSensitivityTable, sensitivityPathFor, type SensitivityFileOptions } from './run/sensitivity-file.js';
+export { analyzeResultsFile, writeSensitivityTable, sensitivityPathFor, type SensitivityFileOptions } from './io/sensitivity-file.js';
 
 // ---- fitting observations ------------------------------------------------------------------
 export {
@@ -116,8 +116,8 @@ export {
   type FitWarning,
   type Observation,
 } from './fit/index.js';
-export { fitResultsFile, fitPathFor, priorOf, type FitFileOptions, type FitFileResult } from './run/fit-file.js';
-export { writeFitTable, writeRefinedSweep, refinedSweep } from './run/fit-output.js';
+export { fitResultsFile, fitPathFor, priorOf, type FitFileOptions, type FitFileResult } from './io/fit-file.js';
+export { writeFitTable, writeRefinedSweep, refinedSweep } from './io/fit-output.js';
 
 // ---- tables on disk: formats, readers, inspection -----------------------------------------
 export { OUTPUT_FORMATS, resolveOutputFormat, parseOutputFormat, formatFromExtension, profilesPathFor, type OutputFormat } from './io/output-format.js';

@@ -16,6 +16,11 @@ export function parseNumberOption(option: string, value: string, min: number, ma
 }
 
 /** Print on stderr when an output's extension disagrees with the format it is written in. */
+/** Print a note to stderr (something the user should know that is not an error). */
+export function printNote(message: string): void {
+  process.stderr.write(`note: ${message}\n`);
+}
+
 export function warnOutputExtension(outPath: string, format?: OutputFormat): void {
   const w = outputExtensionWarning(outPath, format);
   if (w !== null) process.stderr.write(`warning: ${w}\n`);

@@ -40,6 +40,22 @@ export function crcHex(value: number): string {
   return (value >>> 0).toString(16).padStart(8, '0');
 }
 
+/**
+ * CRC-32 of the bytes [from, to) of an open file, continuing from `value`, read in 1 MiB pieces;
+ * null when the file ends before `to` (truncated).
+ */
+export function rangeCrc32(fd: number, from: number, to: number, value = 0): number | null {
+  const buf = Buffer.allocUnsafe(Math.min(1 << 20, Math.max(1, to - from)));
+  let crc = value;
+  for (let pos = from; pos < to; ) {
+    const n = fs.readSync(fd, buf, 0, Math.min(buf.length, to - pos), pos);
+    if (n <= 0) return null;
+    crc = crc32(buf.subarray(0, n), crc);
+    pos += n;
+  }
+  return crc;
+}
+
 /** CRC-32 and size of a file, read in 1 MiB pieces (bounded memory). */
 export function fileCrc32(file: string): { crc32: string; bytes: number } {
   const fd = fs.openSync(file, 'r');

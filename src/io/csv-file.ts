@@ -13,7 +13,7 @@ import * as arrow from 'apache-arrow';
 import fs from 'node:fs';
 import path from 'node:path';
 import { crc32, crcHex } from './checksum.js';
-import { discardTemporaryFile, publishTemporaryFile, writeAllSync, writeFileAtomic } from './ipc-file.js';
+import { discardTemporaryFile, openTemporaryFile, publishTemporaryFile, writeAllSync, writeFileAtomic } from './ipc-file.js';
 
 /** The sidecar of a CSV table: `FILE.units.json`. */
 export function csvSidecarPath(csvPath: string): string {
@@ -150,12 +150,11 @@ export class CsvFileSink {
     readonly tmpPath: string,
     private readonly schema: arrow.Schema,
   ) {
-    this.fd = fs.openSync(tmpPath, 'w');
+    this.fd = openTemporaryFile(tmpPath);
     try {
       this.writeBytes(Buffer.from(`${schema.fields.map((f) => (NEEDS_QUOTES.test(f.name) ? quoteCsv(f.name) : f.name)).join(',')}\n`));
     } catch (err) {
-      fs.closeSync(this.fd);
-      fs.rmSync(tmpPath, { force: true });
+      discardTemporaryFile(this.fd, tmpPath);
       throw err;
     }
   }

@@ -7,6 +7,7 @@ import * as arrow from 'apache-arrow';
 import fs from 'node:fs';
 import path from 'node:path';
 import { ChecksummedFileWriter } from './checksummed-writer.js';
+import { trackTemporary, untrackTemporary } from './exit-cleanup.js';
 
 /**
  * Write all of `bytes` at the file's current position. fs.writeSync may write fewer bytes than
@@ -45,7 +46,7 @@ export class IpcFileSink {
     readonly tmpPath: string,
     schema: arrow.Schema,
   ) {
-    const fd = fs.openSync(tmpPath, 'w');
+    const fd = openTemporaryFile(tmpPath);
     // the footer's schema metadata gets the CRC-32 of the data (src/io/table-checksum.ts)
     const writer = new ChecksummedFileWriter();
     writer.reset(undefined, schema);
@@ -101,11 +102,26 @@ export class IpcFileSink {
   }
 }
 
+/**
+ * Create a temporary file for writing (and reading back: the Parquet sink checksums its data);
+ * it is removed if the process is interrupted before it is published.
+ */
+export function openTemporaryFile(tmpPath: string): number {
+  trackTemporary(tmpPath);
+  try {
+    return fs.openSync(tmpPath, 'w+');
+  } catch (err) {
+    untrackTemporary(tmpPath);
+    throw err;
+  }
+}
+
 /** fsync and close a finished temporary file, rename it to its final name, fsync the folder. */
 export function publishTemporaryFile(fd: number, tmpPath: string, finalPath: string): void {
   fs.fsyncSync(fd);
   fs.closeSync(fd);
   fs.renameSync(tmpPath, finalPath);
+  untrackTemporary(tmpPath);
   fsyncDir(path.dirname(finalPath));
 }
 
@@ -117,6 +133,7 @@ export function discardTemporaryFile(fd: number, tmpPath: string): void {
     // already closed
   }
   fs.rmSync(tmpPath, { force: true });
+  untrackTemporary(tmpPath);
 }
 
 /** fsync a folder so a rename inside it survives a crash (best effort where unsupported). */
@@ -135,18 +152,14 @@ export function fsyncDir(dir: string): void {
 /** Write bytes to `finalPath` atomically: temporary file, fsync, rename, fsync folder. */
 export function writeFileAtomic(finalPath: string, bytes: Uint8Array | string): void {
   const tmp = `${finalPath}.tmp-${process.pid}`;
-  const fd = fs.openSync(tmp, 'w');
+  const fd = openTemporaryFile(tmp);
   try {
     writeAllSync(fd, typeof bytes === 'string' ? Buffer.from(bytes) : bytes);
-    fs.fsyncSync(fd);
   } catch (err) {
-    fs.closeSync(fd);
-    fs.rmSync(tmp, { force: true }); // give the space back; the old file (if any) is untouched
+    discardTemporaryFile(fd, tmp); // give the space back; the old file (if any) is untouched
     throw err;
   }
-  fs.closeSync(fd);
-  fs.renameSync(tmp, finalPath);
-  fsyncDir(path.dirname(finalPath));
+  publishTemporaryFile(fd, tmp, finalPath);
 }
 
 /**
@@ -155,7 +168,11 @@ export function writeFileAtomic(finalPath: string, bytes: Uint8Array | string): 
  */
 export async function writeFileAtomicAsync(finalPath: string, bytes: Uint8Array): Promise<void> {
   const tmp = `${finalPath}.tmp-${process.pid}`;
-  const fh = await fs.promises.open(tmp, 'w');
+  trackTemporary(tmp);
+  const fh = await fs.promises.open(tmp, 'w').catch((err: unknown) => {
+    untrackTemporary(tmp);
+    throw err;
+  });
   try {
     let done = 0;
     while (done < bytes.byteLength) {
@@ -167,10 +184,12 @@ export async function writeFileAtomicAsync(finalPath: string, bytes: Uint8Array)
   } catch (err) {
     await fh.close().catch(() => undefined);
     await fs.promises.rm(tmp, { force: true });
+    untrackTemporary(tmp);
     throw err;
   }
   await fh.close();
   await fs.promises.rename(tmp, finalPath);
+  untrackTemporary(tmp);
   fsyncDir(path.dirname(finalPath));
 }
 

@@ -10,11 +10,15 @@
  * Parquet footer's ARROW:schema key (restored by Arrow-based readers: parquet-wasm, pyarrow);
  * the schema metadata is also written as plain Parquet key-value metadata, with the units as
  * meltsweep.units (JSON), for readers that ignore ARROW:schema (DuckDB parquet_kv_metadata).
+ * The key-value metadata also holds meltsweep.data_crc32, the CRC-32 of every byte before the
+ * footer, sealed into the footer at publication (checked by verifyTableChecksum).
  */
 import * as arrow from 'apache-arrow';
 import fs from 'node:fs';
 import type * as PQ from 'parquet-wasm';
-import { discardTemporaryFile, publishTemporaryFile, writeAllSync } from './ipc-file.js';
+import { crc32, crcHex, rangeCrc32 } from './checksum.js';
+import { DATA_CRC_KEY } from './checksummed-writer.js';
+import { discardTemporaryFile, openTemporaryFile, publishTemporaryFile, writeAllSync } from './ipc-file.js';
 
 type ParquetWasm = typeof PQ;
 
@@ -39,12 +43,40 @@ export interface ParquetWriteOptions {
 /** Rows per Parquet row group unless told otherwise (bounds the writer's memory). */
 export const DEFAULT_ROW_GROUP_ROWS = 131_072;
 
-/** Parquet key-value metadata: the schema metadata plus the units of every column as JSON. */
+/**
+ * The value of meltsweep.data_crc32 while the file is written. The writer fixes its key-value
+ * metadata before the first row, so the footer carries this stand-in of the same length as a CRC
+ * in hex, overwritten in place once the data is complete (sealDataChecksum).
+ */
+const CRC_PLACEHOLDER = 'pending!';
+
+/** Bytes after the footer: its length (int32 LE) and the magic PAR1. */
+const FOOTER_TAIL_BYTES = 8;
+
+/** Parquet key-value metadata: the schema metadata, the units of every column as JSON, the data checksum's place. */
 function keyValueMetadata(schema: arrow.Schema): Map<string, string> {
   const kv = new Map<string, string>(schema.metadata);
   const units = Object.fromEntries(schema.fields.map((f) => [f.name, f.metadata.get('unit') ?? '']));
   kv.set('meltsweep.units', JSON.stringify(units));
+  kv.set(DATA_CRC_KEY, CRC_PLACEHOLDER);
   return kv;
+}
+
+/** The schema without a data checksum it may carry from another file (only the sealed one may be in the footer). */
+function withoutDataChecksum(schema: arrow.Schema): arrow.Schema {
+  if (!schema.metadata.has(DATA_CRC_KEY)) return schema;
+  const metadata = new Map(schema.metadata);
+  metadata.delete(DATA_CRC_KEY);
+  return new arrow.Schema(schema.fields, metadata, schema.dictionaries);
+}
+
+/** Where a Parquet file's footer starts, from its last 8 bytes; null when they are not a footer's tail. */
+export function parquetFooterStart(fd: number, size: number): number | null {
+  const tail = Buffer.alloc(FOOTER_TAIL_BYTES);
+  if (size < 12 || fs.readSync(fd, tail, 0, FOOTER_TAIL_BYTES, size - FOOTER_TAIL_BYTES) !== FOOTER_TAIL_BYTES) return null;
+  if (tail.subarray(4).toString('latin1') !== 'PAR1') return null;
+  const start = size - FOOTER_TAIL_BYTES - tail.readInt32LE(0);
+  return start >= 4 && start < size - FOOTER_TAIL_BYTES ? start : null;
 }
 
 function writerProperties(pq: ParquetWasm, schema: arrow.Schema, o: ParquetWriteOptions): PQ.WriterProperties {
@@ -85,6 +117,11 @@ export class ParquetFileSink {
   private failed: Promise<never> | null = null;
   private writeError: unknown = null;
   private closed = false;
+  /** bytes written, the CRC-32 of all of them, and (offset, CRC of the bytes before it) at each chunk */
+  private written = 0;
+  private crc = 0;
+  private readonly marks: { readonly offset: number; readonly crc: number }[] = [];
+  private readonly schema: arrow.Schema;
   rows = 0;
 
   /** Open a sink (loads the library first). */
@@ -96,17 +133,45 @@ export class ParquetFileSink {
     private readonly pq: ParquetWasm,
     readonly finalPath: string,
     readonly tmpPath: string,
-    private readonly schema: arrow.Schema,
+    schema: arrow.Schema,
     options: ParquetWriteOptions,
   ) {
-    this.fd = fs.openSync(tmpPath, 'w');
+    this.schema = withoutDataChecksum(schema);
+    this.fd = openTemporaryFile(tmpPath);
     this.rowGroupRows = options.rowGroupRows ?? DEFAULT_ROW_GROUP_ROWS;
-    this.props = writerProperties(pq, schema, options);
+    this.props = writerProperties(pq, this.schema, options);
     // the library pulls batches from this stream; a high-water mark of 0 on the readable side
     // makes every write wait until the writer has taken the previous batch (backpressure)
     const pipe = new TransformStream<PQ.RecordBatch, PQ.RecordBatch>(undefined, { highWaterMark: 1 }, { highWaterMark: 0 });
     this.input = pipe.writable.getWriter();
     this.readable = pipe.readable;
+  }
+
+  /** Write bytes of the file, keeping the running CRC-32 and a mark where the chunk starts. */
+  private writeChunk(chunk: Uint8Array): void {
+    this.marks.push({ offset: this.written, crc: this.crc });
+    writeAllSync(this.fd, chunk);
+    this.crc = crc32(chunk, this.crc);
+    this.written += chunk.byteLength;
+  }
+
+  /**
+   * Put the CRC-32 of every byte before the footer (the magic and all column chunks) in place of
+   * the footer's stand-in; only the bytes from the last chunk start before the footer are read back.
+   */
+  private sealDataChecksum(): void {
+    const footerStart = parquetFooterStart(this.fd, this.written);
+    if (footerStart === null) throw new Error(`cannot write ${this.tmpPath}: the Parquet writer left no footer`);
+    let mark = this.marks[0];
+    for (const m of this.marks) if (m.offset <= footerStart) mark = m;
+    const crc = rangeCrc32(this.fd, mark.offset, footerStart, mark.crc);
+    const footer = Buffer.alloc(this.written - FOOTER_TAIL_BYTES - footerStart);
+    fs.readSync(this.fd, footer, 0, footer.length, footerStart);
+    const key = footer.indexOf(DATA_CRC_KEY, 0, 'latin1');
+    const at = key < 0 ? -1 : footer.indexOf(CRC_PLACEHOLDER, key + DATA_CRC_KEY.length, 'latin1');
+    if (crc === null || at < 0 || at > key + DATA_CRC_KEY.length + 4) throw new Error(`cannot write ${this.tmpPath}: the data checksum's place is not in the Parquet footer`);
+    const hex = Buffer.from(crcHex(crc), 'latin1');
+    if (fs.writeSync(this.fd, hex, 0, hex.length, footerStart + at) !== hex.length) throw new Error(`cannot write ${this.tmpPath}: short write of the data checksum`);
   }
 
   private check(): void {
@@ -121,7 +186,7 @@ export class ParquetFileSink {
     const bytes = await this.pq.transformParquetStream(this.readable, this.props);
     this.pump = (async () => {
       try {
-        for await (const chunk of bytes as unknown as AsyncIterable<Uint8Array>) writeAllSync(this.fd, chunk);
+        for await (const chunk of bytes as unknown as AsyncIterable<Uint8Array>) this.writeChunk(chunk);
       } catch (err) {
         this.writeError = err;
       }
@@ -152,12 +217,13 @@ export class ParquetFileSink {
       // no rows: write an empty table in one go (the streaming writer needs a first batch)
       this.input.close().catch(() => undefined);
       const empty = this.pq.Table.fromIPCStream(arrow.tableToIPC(new arrow.Table(this.schema), 'stream'));
-      writeAllSync(this.fd, this.pq.writeParquet(empty, this.props));
+      this.writeChunk(this.pq.writeParquet(empty, this.props));
     } else {
       await this.input.close();
       await this.pump;
     }
     this.check();
+    this.sealDataChecksum();
     this.closed = true;
     publishTemporaryFile(this.fd, this.tmpPath, this.finalPath);
   }

@@ -6,15 +6,17 @@
  *   meltsweep.data_crc32 holds the CRC-32 of every byte before the end-of-stream marker that
  *   precedes the footer (magic, dictionaries, record batches).
  * - CSV: the units sidecar, written at publication, holds data_crc32, the CRC-32 of the CSV file.
- * - Parquet: the writer takes its metadata before the first row, so no checksum is stored; the
- *   format's own page structure and the row-id check of `merge` guard it.
+ * - Parquet: the footer's key-value metadata meltsweep.data_crc32 holds the CRC-32 of every byte
+ *   before the footer (the writer fixes its metadata before the first row, so the sink writes a
+ *   stand-in and seals the CRC in place at publication; src/io/parquet-file.ts).
  */
 import * as arrow from 'apache-arrow';
 import fs from 'node:fs';
-import { crc32, crcHex, fileCrc32 } from './checksum.js';
+import { crcHex, fileCrc32, rangeCrc32 } from './checksum.js';
 import { DATA_CRC_KEY } from './checksummed-writer.js';
 import { csvSidecarPath, readCsvSidecar } from './csv-file.js';
 import { readIpcSchema } from './ipc-file.js';
+import { parquetFooterStart, readParquetInfo } from './parquet-file.js';
 
 /** Bytes of the end-of-stream marker (continuation 0xFFFFFFFF + length 0) before an IPC file footer. */
 const EOS_BYTES = 8;
@@ -22,7 +24,7 @@ const EOS_BYTES = 8;
 /** What a table's checksum says. */
 export type ChecksumCheck =
   | { readonly status: 'ok' }
-  /** the table carries no checksum (Parquet, or written by an older meltsweep) */
+  /** the table carries no checksum (written by an older meltsweep) */
   | { readonly status: 'absent' }
   | { readonly status: 'bad'; readonly why: string };
 
@@ -47,7 +49,7 @@ export async function verifyTableChecksum(file: string): Promise<ChecksumCheck> 
     const want = schema.metadata.get(DATA_CRC_KEY);
     return want === undefined ? { status: 'absent' } : verifyIpcFile(file, size, want);
   }
-  if (head.subarray(0, 4).toString('latin1') === 'PAR1') return { status: 'absent' };
+  if (head.subarray(0, 4).toString('latin1') === 'PAR1') return verifyParquetFile(file, size);
   if (fs.existsSync(csvSidecarPath(file))) {
     const want = readCsvSidecar(file).data_crc32;
     if (want === undefined) return { status: 'absent' };
@@ -55,6 +57,27 @@ export async function verifyTableChecksum(file: string): Promise<ChecksumCheck> 
     return got === want ? { status: 'ok' } : { status: 'bad', why: `its CRC-32 is ${got}, the sidecar recorded ${want} (the file was changed after it was written)` };
   }
   return { status: 'absent' };
+}
+
+async function verifyParquetFile(file: string, size: number): Promise<ChecksumCheck> {
+  let want: string | undefined;
+  try {
+    want = (await readParquetInfo(file)).schema.metadata.get(DATA_CRC_KEY);
+  } catch {
+    return { status: 'bad', why: 'its footer cannot be read (truncated or damaged)' };
+  }
+  if (want === undefined) return { status: 'absent' };
+  const fd = fs.openSync(file, 'r');
+  try {
+    const footerStart = parquetFooterStart(fd, size);
+    if (footerStart === null) return { status: 'bad', why: 'its footer is damaged' };
+    const crc = rangeCrc32(fd, 0, footerStart);
+    if (crc === null) return { status: 'bad', why: 'it is shorter than its footer says (truncated)' };
+    const got = crcHex(crc);
+    return got === want ? { status: 'ok' } : { status: 'bad', why: `its data CRC-32 is ${got}, its footer recorded ${want} (damaged after it was written)` };
+  } finally {
+    fs.closeSync(fd);
+  }
 }
 
 function verifyIpcFile(file: string, size: number, want: string): ChecksumCheck {
@@ -67,14 +90,8 @@ function verifyIpcFile(file: string, size: number, want: string): ChecksumCheck 
     const footerLen = tail.readInt32LE(0);
     const covered = size - 10 - footerLen - EOS_BYTES;
     if (footerLen <= 0 || covered < 8) return { status: 'bad', why: 'its footer is damaged' };
-    const buf = Buffer.allocUnsafe(1 << 20);
-    let crc = 0;
-    for (let pos = 0; pos < covered; ) {
-      const n = fs.readSync(fd, buf, 0, Math.min(buf.length, covered - pos), pos);
-      if (n <= 0) return { status: 'bad', why: 'it is shorter than its footer says (truncated)' };
-      crc = crc32(buf.subarray(0, n), crc);
-      pos += n;
-    }
+    const crc = rangeCrc32(fd, 0, covered);
+    if (crc === null) return { status: 'bad', why: 'it is shorter than its footer says (truncated)' };
     const got = crcHex(crc);
     return got === want ? { status: 'ok' } : { status: 'bad', why: `its data CRC-32 is ${got}, its footer recorded ${want} (damaged after it was written)` };
   } finally {

@@ -10,7 +10,7 @@ import { InputError } from '../errors.js';
 import { formatFitNumber } from '../fit/format.js';
 import type { FitSummary } from '../fit/types.js';
 import { writeFileAtomic } from '../io/ipc-file.js';
-import type { FitFileResult } from '../run/fit-file.js';
+import type { FitFileResult } from '../io/fit-file.js';
 import { marginalSpec, pairMatrixSpec, predictiveSpec } from './fit-plots.js';
 import { escapeHtml, htmlFigure, htmlPage, htmlTable } from './html.js';
 import { renderSvg, type PlotSpec } from './render.js';

@@ -6,7 +6,7 @@ import { InputError } from '../errors.js';
 import { inputsOfSpec, resultsOfSpec } from '../process/registry.js';
 import { didYouMean } from '../spec/suggest.js';
 import type { SweepSpec } from '../spec/types.js';
-import type { CappedChoice } from '../run/capped-rows.js';
+import type { CappedChoice } from '../io/capped-rows.js';
 import { fieldInfo, formatNumber } from './labels.js';
 
 /** What the report shows. Every field is optional; see resolveReportOptions for the defaults. */

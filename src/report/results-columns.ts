@@ -10,7 +10,7 @@ import { readResultsMeta, type ResultsTableMeta } from '../io/arrow-schema.js';
 import { readTableBatches, readTableSchema } from '../io/table-reader.js';
 import { COLUMN_STATUSES, type ColumnStatus } from '../physics/types.js';
 import type { SweepSpec } from '../spec/types.js';
-import { CAPPED_FLAG, type CappedChoice } from '../run/capped-rows.js';
+import { CAPPED_FLAG, type CappedChoice } from '../io/capped-rows.js';
 
 /** Columns of a results file, in row order. */
 export interface ResultsColumns {

@@ -45,6 +45,8 @@ export interface MergeOptions {
   readonly format?: OutputFormat;
   /** writer settings (Parquet compression, row group size) */
   readonly writer?: TableSinkOptions;
+  /** told about things the user should know that are not errors (a stale lock taken over) */
+  readonly note?: (message: string) => void;
 }
 
 interface ShardInfo {
@@ -168,7 +170,7 @@ export async function mergeShards(files: readonly string[], outPath: string, opt
   checkOutput(resolved, options.force === true, false, '--output', files);
   const infos = await checkShards(files);
   const format = resolveOutputFormat(resolved, options.format);
-  const lock = lockOutput(resolved, 'merge');
+  const lock = lockOutput(resolved, 'merge', options.note);
   try {
     return await mergeLocked(infos, resolved, format, options);
   } finally {

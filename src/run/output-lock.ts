@@ -7,6 +7,7 @@
 import fs from 'node:fs';
 import os from 'node:os';
 import { InputError } from '../errors.js';
+import { onInterruptRelease } from '../io/exit-cleanup.js';
 
 /** The lock file guarding `outPath`. */
 export function lockPathFor(outPath: string): string {
@@ -51,8 +52,9 @@ function alive(pid: number): boolean {
  * Take the lock of `outPath` or refuse (InputError, exit 2) naming the owner. Nothing else on
  * disk is changed by a refused call.
  * @param what the command taking it, recorded for the message another invocation would print
+ * @param note told when a stale lock (its owner gone) is taken over, with who held it
  */
-export function lockOutput(outPath: string, what: string): OutputLock {
+export function lockOutput(outPath: string, what: string, note?: (message: string) => void): OutputLock {
   const file = lockPathFor(outPath);
   const me: LockOwner = { kind: 'meltsweep output lock', pid: process.pid, host: os.hostname(), since: new Date().toISOString(), command: what };
   const text = `${JSON.stringify(me)}\n`;
@@ -65,11 +67,18 @@ export function lockOutput(outPath: string, what: string): OutputLock {
       } finally {
         fs.closeSync(fd);
       }
+      const giveBack = (): void => {
+        // only our own lock: a stale-lock takeover by another process must not be undone
+        const owner = readOwner(file);
+        if (owner?.pid === me.pid && owner.since === me.since) fs.rmSync(file, { force: true });
+      };
+      // a command stopped by a signal gives the lock back too (src/cli/interrupts.ts)
+      const forget = onInterruptRelease(file, giveBack);
       return {
         path: file,
         release: () => {
-          // only our own lock: a stale-lock takeover by another process must not be undone
-          if (readOwner(file)?.pid === me.pid && readOwner(file)?.since === me.since) fs.rmSync(file, { force: true });
+          forget();
+          giveBack();
         },
       };
     } catch (err) {
@@ -91,7 +100,10 @@ export function lockOutput(outPath: string, what: string): OutputLock {
     if (owner.host === os.hostname() && !alive(owner.pid)) {
       // stale: its owner is gone. Remove it only if it is still the same stale lock.
       const again = readOwner(file);
-      if (again !== null && again.pid === owner.pid && again.since === owner.since) fs.rmSync(file, { force: true });
+      if (again !== null && again.pid === owner.pid && again.since === owner.since) {
+        fs.rmSync(file, { force: true });
+        note?.(`took over the lock ${file} of process ${owner.pid} (${owner.command}, since ${owner.since}), which is no longer running`);
+      }
       continue;
     }
     const where = owner.host === os.hostname() ? `process ${owner.pid}` : `process ${owner.pid} on host ${owner.host}`;

@@ -52,6 +52,8 @@ export interface RunOptions {
   /** ... or after this many seconds, whichever comes first */
   readonly segmentSeconds?: number;
   readonly progress?: ProgressSink | null;
+  /** told about things the user should know that are not errors (a stale lock taken over) */
+  readonly note?: (message: string) => void;
   /** stop cleanly when aborted (Ctrl-C): finished rows are committed, the run is resumable */
   readonly signal?: AbortSignal;
   /** a different worker module (tests inject faults with it) */
@@ -103,7 +105,7 @@ export interface RunSummary {
 export async function runSweep(opts: RunOptions): Promise<RunSummary> {
   const t0 = performance.now();
   const setup = prepareRun(opts);
-  const lock = lockOutput(setup.outPath, opts.shard ? `run --shard ${opts.shard.k}/${opts.shard.n}` : 'run');
+  const lock = lockOutput(setup.outPath, opts.shard ? `run --shard ${opts.shard.k}/${opts.shard.n}` : 'run', opts.note);
   try {
     return await runLocked(setup, opts, t0);
   } finally {

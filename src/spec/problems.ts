@@ -84,14 +84,18 @@ export function unknownKeyText(key: string, allowed: readonly string[], what = '
   return near === null ? `unknown ${what}; allowed: ${allowed.join(', ')}` : `unknown ${what}; did you mean ${near}?`;
 }
 
-/** A finite number, or a problem "<found> is not a number" recorded at path. */
-export function readNumber(value: unknown, path: string, problems: ProblemList): number | undefined {
+/**
+ * A finite number, or a problem "<found> is not a number" recorded at path, the value shown as
+ * found ("abc", NaN, Infinity) and followed by `allowed` when given ("; allowed 1100-1800 degC").
+ */
+export function readNumber(value: unknown, path: string, problems: ProblemList, allowed?: string): number | undefined {
+  const tail = allowed === undefined ? '' : `; ${allowed}`;
   if (typeof value !== 'number') {
-    problems.add(path, `${describeFound(value)} is not a number`);
+    problems.add(path, `${describeFound(value)} is not a number${tail}`);
     return undefined;
   }
   if (!Number.isFinite(value)) {
-    problems.add(path, `${describeFound(value)} is not a finite number`);
+    problems.add(path, `${describeFound(value)} is not a finite number${tail}`);
     return undefined;
   }
   return value;

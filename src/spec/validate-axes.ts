@@ -2,7 +2,7 @@
  * Validation of the `axes` section: each swept input is `values`, or `from`/`to` with `step`
  * or `count` (optional `scale: log`). Ranges are expanded to their values here, once.
  */
-import { checkRangeValue } from '../physics/ranges.js';
+import { checkRangeValue, formatRange } from '../physics/ranges.js';
 import type { InputDef } from '../process/types.js';
 import { MAX_AXIS_VALUES } from './limits.js';
 import {
@@ -157,7 +157,7 @@ function validateValuesAxis(
   let ok = true;
   raw.forEach((item: unknown, i) => {
     const ipath = `${vpath}[${i}]`;
-    const v = readNumber(item, ipath, problems);
+    const v = readNumber(item, ipath, problems, `allowed ${formatRange(input)}`);
     if (v === undefined || !checkAxisValue(input, v, scale, ipath, problems)) {
       ok = false;
       return;
@@ -189,7 +189,7 @@ function validateRangeAxis(
       problems.add(`${path}.${k}`, 'missing; a range axis needs from and to (or give values)');
       return undefined;
     }
-    const v = readNumber(body[k], `${path}.${k}`, problems);
+    const v = readNumber(body[k], `${path}.${k}`, problems, `allowed ${formatRange(input)}`);
     return v !== undefined && checkAxisValue(input, v, scale, `${path}.${k}`, problems) ? v : undefined;
   });
   const hasStep = body.step !== undefined;

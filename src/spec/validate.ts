@@ -152,7 +152,7 @@ function validateFixed(raw: unknown, swept: readonly string[], pi: ProcessInputs
     const input = pi.inputs.find((i) => i.name === key);
     if (input === undefined) continue;
     const name = key;
-    const v = readNumber(value, path, problems);
+    const v = readNumber(value, path, problems, `allowed ${formatRange(input)}`);
     if (v === undefined) continue;
     if (swept.includes(name)) {
       problems.add(path, `${v} conflicts with axes.${name}; an input is either swept or fixed, not both`);

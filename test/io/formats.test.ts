@@ -150,10 +150,11 @@ describe('Parquet', () => {
       own.schema.fields.map((f) => `${f.name}:${String(f.type)}:${f.metadata.get('unit')}`),
     );
     // the schema metadata comes back, plus the units key the Parquet footer carries for other readers
-    // (the Arrow file's own data checksum, meltsweep.data_crc32, belongs to that file only)
+    // and the Parquet file's own data checksum (the Arrow file's meltsweep.data_crc32 belongs to that file only)
     const ownMeta = Object.fromEntries([...own.schema.metadata].filter(([k]) => k !== 'meltsweep.data_crc32'));
     expect(own.schema.metadata.get('meltsweep.data_crc32')).toMatch(/^[0-9a-f]{8}$/);
-    expect(Object.fromEntries(schema.metadata)).toEqual({ ...ownMeta, 'meltsweep.units': expect.any(String) });
+    expect(Object.fromEntries(schema.metadata)).toEqual({ ...ownMeta, 'meltsweep.units': expect.any(String), 'meltsweep.data_crc32': expect.stringMatching(/^[0-9a-f]{8}$/) });
+    expect(schema.metadata.get('meltsweep.data_crc32')).not.toBe(own.schema.metadata.get('meltsweep.data_crc32'));
     expect(tableColumns(await readAll(files.parquet))).toEqual(tableColumns(own));
   });
 });

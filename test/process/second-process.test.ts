@@ -8,7 +8,7 @@ import { inspectTable } from '../../src/io/inspect-table.js';
 import { registerProcess } from '../../src/process/registry.js';
 import type { ProcessDefinition } from '../../src/process/types.js';
 import { runSweep } from '../../src/run/run-sweep.js';
-import { analyzeResultsFile } from '../../src/run/sensitivity-file.js';
+import { analyzeResultsFile } from '../../src/io/sensitivity-file.js';
 import { validateSweep } from '../../src/spec/index.js';
 import { readTable, runCliSync, tableColumns, tmpDir, problemsOf } from '../helpers.js';
 

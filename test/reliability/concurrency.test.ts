@@ -81,7 +81,14 @@ describe('one writer per output', () => {
     fs.writeFileSync(lock, JSON.stringify(owner));
     const r = runCliSync(['run', sweep, '-o', out, '--quiet', '--no-summary', '--workers', '1']);
     expect(r.status, r.stderr).toBe(0);
+    expect(r.stderr).toContain(`note: took over the lock ${lock} of process ${owner.pid} (run, since 2000-01-01T00:00:00.000Z), which is no longer running`);
     expect(fs.existsSync(lock)).toBe(false);
+    // merge takes a stale lock over the same way
+    fs.writeFileSync(lockPathFor(path.join(dir, 'merged.arrow')), JSON.stringify({ ...owner, command: 'merge' }));
+    const m = runCliSync(['merge', out, '-o', path.join(dir, 'merged.arrow')]);
+    expect(m.status, m.stderr).toBe(0);
+    expect(m.stderr).toContain(`of process ${owner.pid} (merge, since 2000-01-01T00:00:00.000Z), which is no longer running`);
+    expect(fs.existsSync(lockPathFor(path.join(dir, 'merged.arrow')))).toBe(false);
     const elsewhere = path.join(dir, 'elsewhere.arrow');
     fs.writeFileSync(lockPathFor(elsewhere), JSON.stringify({ ...owner, host: 'node-z9', pid: 4242 }));
     const refused = runCliSync(['run', sweep, '-o', elsewhere, '--quiet', '--no-summary']);
@@ -89,6 +96,33 @@ describe('one writer per output', () => {
     expect(refused.stderr).toContain('process 4242 on host node-z9');
     expect(refused.stderr).toContain(`delete ${lockPathFor(elsewhere)} if that process is gone`);
     expect(fs.readdirSync(dir).filter((n) => n.startsWith('elsewhere.arrow'))).toEqual(['elsewhere.arrow.lock']);
+  }, 60_000);
+
+  it('a live lock (its process runs on this host) refuses run, --resume, --force and merge, and nothing on disk changes', () => {
+    const sweep = writeSweep(dir, 'live.yaml', 'name: live lock L-3\naxes:\n  tp_c: { from: 1300, to: 1400, count: 5 }\nfixed: { water_ppm: 0 }\nmodel: { thermal: isentropic }\n');
+    const folder = fs.mkdtempSync(path.join(dir, 'live-'));
+    const out = path.join(folder, 'live.arrow');
+    expect(runCliSync(['run', sweep, '-o', out, '--quiet', '--no-summary', '--workers', '1']).status).toBe(0);
+    // a partial run and a lock held by this (running) test process
+    fs.mkdirSync(`${out}.partial`);
+    fs.writeFileSync(`${out}.partial/manifest.json`, '{}');
+    const owner = { kind: 'meltsweep output lock', pid: process.pid, host: os.hostname(), since: '2001-02-03T04:05:06.000Z', command: 'run' };
+    fs.writeFileSync(lockPathFor(out), JSON.stringify(owner));
+    const merged = path.join(folder, 'merged.arrow');
+    fs.writeFileSync(lockPathFor(merged), JSON.stringify({ ...owner, command: 'merge' }));
+    const snapshot = (): string[] =>
+      fs.readdirSync(folder, { recursive: true }).map(String).sort().map((n) => {
+        const st = fs.statSync(path.join(folder, n));
+        return `${n} ${st.size} ${st.mtimeMs}${st.isFile() ? ` ${fs.readFileSync(path.join(folder, n)).toString('base64').slice(-40)}` : ''}`;
+      });
+    const before = snapshot();
+    for (const args of [['run', sweep, '-o', out], ['run', sweep, '-o', out, '--resume'], ['run', sweep, '-o', out, '--force'], ['merge', out, '-o', merged, '--force']]) {
+      const r = runCliSync(args[0] === 'run' ? [...args, '--quiet', '--no-summary'] : args);
+      expect(r.status, `${args.join(' ')}: ${r.stderr}`).toBe(2);
+      // a plain run is refused because the output exists; the others because of the lock
+      if (args.length > 4) expect(r.stderr).toContain(`being written by another meltsweep command (process ${process.pid}, ${args[0]}, since 2001-02-03T04:05:06.000Z)`);
+      expect(snapshot(), args.join(' ')).toEqual(before);
+    }
   }, 60_000);
 
   it('the lock is exclusive within one process too, and released only by its owner', () => {
@@ -111,7 +145,7 @@ describe('bounded resources', () => {
     return m ? Number(m[1]) / 1024 : NaN;
   }
 
-  it.runIf(process.platform === 'linux')('a 10^12-point run stops promptly on Ctrl-C with its memory under 300 MB, and is resumable', async () => {
+  it.runIf(process.platform === 'linux')('a 10^12-point run stops within 2 s of Ctrl-C with its memory under 300 MB, and is resumable', async () => {
     const sweep = writeSweep(dir, 'huge.yaml', `
 name: huge sweep H-1
 axes:
@@ -138,10 +172,10 @@ model: { thermal: isentropic, water: batch }
     process.stdout.write(`10^12-point run: peak RSS ${rssMb.toFixed(0)} MB, stopped ${stopMs.toFixed(0)} ms after SIGINT\n`);
     expect(code, stderr).toBe(130);
     expect(rssMb).toBeLessThan(300);
-    // Ctrl-C cancels the unfinished chunks, so stopping does not wait for the queue: measured 0.5-0.8 s
-    // alone on the loaded 2-core machine, 2.6 s once under the whole suite; the bound only catches a
-    // run that ignores Ctrl-C (before, it never stopped)
-    expect(stopMs).toBeLessThan(10_000);
+    // the bound the issue asks for, measured from the signal: Ctrl-C cancels the unfinished chunks
+    // (a running one stops its thread) and the process exits as soon as the partial run is
+    // committed; scripts/interrupt-timing.mjs measured 0.15-0.45 s on the loaded 2-core machine
+    expect(stopMs).toBeLessThan(2000);
     expect(stderr).toContain('--resume');
     expect(fs.existsSync(`${out}.partial/manifest.json`)).toBe(true);
     expect(fs.readdirSync(dir).filter((n) => n.startsWith('huge.arrow.tmp-'))).toEqual([]);

@@ -9,7 +9,7 @@ import { pathToFileURL } from 'node:url';
 import { chromium } from 'playwright-core';
 import { writeFitPage } from '../../src/report/fit-page.js';
 import { writeHtmlReport } from '../../src/report/html-report.js';
-import { fitResultsFile } from '../../src/run/fit-file.js';
+import { fitResultsFile } from '../../src/io/fit-file.js';
 import { tmpDir } from '../helpers.js';
 import { gridSweepFile } from './helpers.js';
 

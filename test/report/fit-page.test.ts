@@ -2,7 +2,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import fs from 'node:fs';
 import { buildFitPage } from '../../src/report/fit-page.js';
-import { fitResultsFile, type FitFileResult } from '../../src/run/fit-file.js';
+import { fitResultsFile, type FitFileResult } from '../../src/io/fit-file.js';
 import { tmpDir } from '../helpers.js';
 import { axisTitles, gridSweepFile, ids, markGroups, saltelliSweepFile, xmlProblem } from './helpers.js';
 

@@ -7,8 +7,8 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import fs from 'node:fs';
 import path from 'node:path';
-import { fitPathFor, fitResultsFile, type FitFileResult } from '../../src/run/fit-file.js';
-import { writeFitTable, writeRefinedSweep } from '../../src/run/fit-output.js';
+import { fitPathFor, fitResultsFile, type FitFileResult } from '../../src/io/fit-file.js';
+import { writeFitTable, writeRefinedSweep } from '../../src/io/fit-output.js';
 import { runSweep } from '../../src/run/run-sweep.js';
 import { loadSweepFile, validateSweep } from '../../src/spec/index.js';
 import { readTable, tmpDir } from '../helpers.js';

@@ -1,6 +1,6 @@
 /**
- * merge refuses damaged shards: a dropped CSV line, a bit flip in an Arrow shard, a shard of
- * another meltsweep version. Nothing is published when a shard fails.
+ * merge refuses damaged shards: a dropped CSV line, a bit flip in an Arrow or a Parquet shard, a
+ * truncated Parquet shard, a shard of another meltsweep version. Nothing is published when a shard fails.
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import fs from 'node:fs';
@@ -10,6 +10,7 @@ import { runSweep } from '../../src/run/run-sweep.js';
 import { mergeShards } from '../../src/run/merge.js';
 import { InputError } from '../../src/errors.js';
 import { verifyTableChecksum } from '../../src/io/table-checksum.js';
+import { parquetFooterStart } from '../../src/io/parquet-file.js';
 import { readTable, tmpDir } from '../helpers.js';
 
 const dir = tmpDir('merge-verify');
@@ -26,7 +27,7 @@ const shard = (k: number, ext: string): string => path.join(dir, `part-${k}.${ex
 
 beforeAll(async () => {
   for (const k of [1, 2]) {
-    for (const ext of ['arrow', 'csv']) await runSweep({ spec, outPath: shard(k, ext), workers: 1, shard: { k, n: 2 } });
+    for (const ext of ['arrow', 'csv', 'parquet']) await runSweep({ spec, outPath: shard(k, ext), workers: 1, shard: { k, n: 2 } });
   }
 }, 60_000);
 
@@ -45,7 +46,7 @@ function expectNothingPublished(out: string): void {
 
 describe('merge verifies every shard', () => {
   it('published tables carry a checksum that holds', async () => {
-    for (const ext of ['arrow', 'csv']) expect(await verifyTableChecksum(shard(1, ext))).toEqual({ status: 'ok' });
+    for (const ext of ['arrow', 'csv', 'parquet']) expect(await verifyTableChecksum(shard(1, ext))).toEqual({ status: 'ok' });
     const m = await mergeShards([shard(2, 'csv'), shard(1, 'arrow')], path.join(dir, 'ok.arrow'));
     expect(m.rows).toBe(400);
     expect(readTable(path.join(dir, 'ok.arrow')).numRows).toBe(400);
@@ -89,6 +90,31 @@ describe('merge verifies every shard', () => {
     fs.writeFileSync(damaged, bytes);
     const out = path.join(dir, 'flipped-merge.arrow');
     await expect(mergeShards([shard(1, 'arrow'), damaged], out)).rejects.toThrow(/flipped\.arrow is damaged: its data CRC-32 is [0-9a-f]{8}, its footer recorded [0-9a-f]{8}/);
+    expectNothingPublished(out);
+  });
+
+  it('Parquet shards carry a data checksum: merged when whole, refused after a bit flip or a cut', async () => {
+    const merged = path.join(dir, 'from-parquet.parquet');
+    const m = await mergeShards([shard(1, 'parquet'), shard(2, 'parquet')], merged);
+    expect(m.rows).toBe(400);
+    // the merged Parquet table is sealed too, and read back it passes
+    expect(await verifyTableChecksum(merged)).toEqual({ status: 'ok' });
+    const damaged = copyShard(2, 'parquet', 'flipped-pq');
+    const bytes = fs.readFileSync(damaged);
+    const fd = fs.openSync(damaged, 'r');
+    const footerStart = parquetFooterStart(fd, bytes.length)!;
+    fs.closeSync(fd);
+    // one bit of a column chunk (the data before the footer)
+    bytes[Math.floor(footerStart / 2)] ^= 0x10;
+    fs.writeFileSync(damaged, bytes);
+    const out = path.join(dir, 'flipped-pq-merge.arrow');
+    await expect(mergeShards([shard(1, 'parquet'), damaged], out)).rejects.toThrow(/flipped-pq\.parquet is damaged: its data CRC-32 is [0-9a-f]{8}, its footer recorded [0-9a-f]{8}/);
+    expectNothingPublished(out);
+    // cut short: its footer is gone
+    const cut = copyShard(2, 'parquet', 'cut-pq');
+    fs.truncateSync(cut, fs.statSync(cut).size - 100);
+    expect(await verifyTableChecksum(cut)).toEqual({ status: 'bad', why: 'its footer cannot be read (truncated or damaged)' });
+    await expect(mergeShards([shard(1, 'parquet'), cut], out)).rejects.toThrow(/cut-pq\.parquet/);
     expectNothingPublished(out);
   });
 

@@ -109,7 +109,24 @@ describe('exact messages for bad sweep files', () => {
   it('values: repeated and non-numeric entries', () => {
     expect(yaml(BASE_YAML.replace('[0, 50, 100, 200]', '[0, 50, 50, "x"]'))).toEqual([
       'axes.water_ppm.values[2]: 50 repeats values[1]; give each value once',
-      'axes.water_ppm.values[3]: "x" is not a number',
+      'axes.water_ppm.values[3]: "x" is not a number; allowed 0-50000 ppm',
+    ]);
+  });
+
+  it('NaN, infinities and text as input values show the value, the field and the allowed range (YAML and JSON)', () => {
+    expect(yaml('name: n N-1\naxes:\n  tp_c: { from: 1300, to: .nan, count: 3 }\n  water_ppm: { values: [0, .inf, -.inf, "lots"] }\nfixed: { lid_km: .NaN, upwelling_mm_yr: twenty }\n')).toEqual([
+      'axes.tp_c.to: NaN is not a finite number; allowed 1100-1800 degC',
+      'axes.water_ppm.values[1]: Infinity is not a finite number; allowed 0-50000 ppm',
+      'axes.water_ppm.values[2]: -Infinity is not a finite number; allowed 0-50000 ppm',
+      'axes.water_ppm.values[3]: "lots" is not a number; allowed 0-50000 ppm',
+      'fixed.lid_km: NaN is not a finite number; allowed 0-200 km',
+      'fixed.upwelling_mm_yr: "twenty" is not a number; allowed 0-10000 mm/yr (0 excluded)',
+    ]);
+    // JSON has no NaN literal: the text "NaN" and a number written as a string are shown as text
+    expect(json('{"name": "n N-2", "axes": {"tp_c": {"values": [1300, "hot"]}}, "fixed": {"water_ppm": "NaN", "lid_km": "12"}}')).toEqual([
+      'axes.tp_c.values[1]: "hot" is not a number; allowed 1100-1800 degC',
+      'fixed.water_ppm: "NaN" is not a number; allowed 0-50000 ppm',
+      'fixed.lid_km: "12" is not a number; allowed 0-200 km',
     ]);
   });
 
@@ -177,7 +194,7 @@ describe('exact messages for bad sweep files', () => {
 
   it('validateSweep checks objects built in code the same way', () => {
     expect(problemsOf(() => validateSweep({ axes: { tp_c: { values: [1300] } }, fixed: { lid_km: '6' } }))).toEqual([
-      'fixed.lid_km: "6" is not a number',
+      'fixed.lid_km: "6" is not a number; allowed 0-200 km',
     ]);
     expect(problemsOf(() => validateSweep([1, 2]))).toHaveLength(1);
   });

@@ -1,16 +1,16 @@
 /**
  * `meltsweep fit`: observations in, a posterior over the swept inputs out (text or JSON), plus
  * RESULTS.fit.arrow, an HTML page and optionally a refined sweep. Parse, call, write: the
- * statistics are in src/fit, the file handling in src/run/fit-file.ts.
+ * statistics are in src/fit, the file handling in src/io/fit-file.ts.
  */
 import type { Command } from 'commander';
 import fs from 'node:fs';
 import path from 'node:path';
 import { InputError } from '../../errors.js';
 import { fitJson, formatFitSummary, observationsFromData, parseDiscrepancyOption, parseObserveOption, type Observation } from '../../fit/index.js';
-import { fitPathFor, fitResultsFile } from '../../run/fit-file.js';
-import { CAPPED_HELP, parseCappedOption, type CappedChoice } from '../../run/capped-rows.js';
-import { checkFitOutput, writeFitTable, writeRefinedSweep } from '../../run/fit-output.js';
+import { fitPathFor, fitResultsFile } from '../../io/fit-file.js';
+import { CAPPED_HELP, parseCappedOption, type CappedChoice } from '../../io/capped-rows.js';
+import { checkFitOutput, writeFitTable, writeRefinedSweep } from '../../io/fit-output.js';
 import { parseSweepData } from '../../spec/parse.js';
 
 interface FitCliOptions {

@@ -4,7 +4,7 @@ import { completeParts, readSubmission, SUBMISSION_FILE } from '../../cluster/pa
 import { InputError } from '../../errors.js';
 import { OUTPUT_FORMATS, parseOutputFormat, type OutputFormat } from '../../io/output-format.js';
 import { mergeShards } from '../../run/merge.js';
-import { warnOutputExtension } from '../options.js';
+import { printNote, warnOutputExtension } from '../options.js';
 import { formatCounts } from '../run-report.js';
 
 /** The files to merge: as given, or every part of a submission's parts folder (all must be complete). */
@@ -25,7 +25,7 @@ export function registerMerge(program: Command): void {
     .option('--force', 'replace an existing output')
     .action(async (shards: string[], o: { output: string; force?: boolean; format?: OutputFormat }) => {
       warnOutputExtension(o.output, o.format);
-      const s = await mergeShards(await shardFiles(shards), o.output, { force: o.force === true, format: o.format });
+      const s = await mergeShards(await shardFiles(shards), o.output, { force: o.force === true, format: o.format, note: printNote });
       const lines = [`merged ${s.shards} shard(s) into ${s.outPath} (${s.format})`, `rows: ${s.rows.toLocaleString('en-US')} (${formatCounts(s.counts)})`];
       if (s.profilesPath !== null) lines.push(`profiles: ${s.profilesPath}`);
       if (s.profilesNote !== null) lines.push(`note: ${s.profilesNote}`);

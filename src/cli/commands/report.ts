@@ -6,7 +6,7 @@ import type { Command } from 'commander';
 import { InputError } from '../../errors.js';
 import type { ExportSize } from '../../report/export-options.js';
 import { parseAtOption, parseContourOption } from '../../report/report-options.js';
-import { CAPPED_HELP, parseCappedOption, type CappedChoice } from '../../run/capped-rows.js';
+import { CAPPED_HELP, parseCappedOption, type CappedChoice } from '../../io/capped-rows.js';
 import { checkOutputFile, figureSize } from '../figure-output.js';
 import { parseNumberOption } from '../options.js';
 

@@ -8,7 +8,8 @@ import { parseShardArg } from '../../plan/index.js';
 import { runSweep, type RunSummary } from '../../run/run-sweep.js';
 import { createProgress } from '../../run/progress.js';
 import { planSweep, shardRange } from '../../plan/index.js';
-import { parseNumberOption, parseWorkers, warnOutputExtension } from '../options.js';
+import { parseNumberOption, parseWorkers, printNote, warnOutputExtension } from '../options.js';
+import { handleInterrupts, stopAtOnce } from '../interrupts.js';
 import { formatRunSummary } from '../run-report.js';
 import { summaryAfterRun } from './sensitivity.js';
 
@@ -42,18 +43,11 @@ export async function executeRun(sweepPath: string, o: RunCommandOptions): Promi
   // Ctrl-C is honoured from the first moment: while the sweep is read and planned it stops at once
   // (nothing is written yet), later the run stops cleanly
   const controller = new AbortController();
-  let sigints = 0;
-  const onSigint = (): void => {
-    sigints++;
-    if (sigints === 1) {
-      process.stderr.write('\nstopping: committing every finished row (Ctrl-C again to quit at once)\n');
-      controller.abort();
-    } else {
-      process.exit(EXIT_INTERRUPTED);
-    }
-  };
-  process.on('SIGINT', onSigint);
-  process.on('SIGTERM', onSigint);
+  const restore = handleInterrupts((signal) => {
+    if (controller.signal.aborted) stopAtOnce(signal);
+    process.stderr.write('\nstopping: committing every finished row (Ctrl-C again to quit at once)\n');
+    controller.abort();
+  });
   try {
     const spec = await loadSweepFile(sweepPath);
     if (o.sweepHash !== undefined) checkSweepHash(sweepPath, sweepHash(spec), o.sweepHash);
@@ -75,6 +69,7 @@ export async function executeRun(sweepPath: string, o: RunCommandOptions): Promi
       segmentSeconds: o.commitSeconds,
       format: o.format,
       profiles: o.profiles,
+      note: printNote,
       progress: o.quiet ? null : createProgress({ totalRows: range.end - range.start, startRows: 0, stream: process.stderr }),
     });
     for (const r of summary.repairedSegments) {
@@ -82,8 +77,7 @@ export async function executeRun(sweepPath: string, o: RunCommandOptions): Promi
     }
     return summary;
   } finally {
-    process.off('SIGINT', onSigint);
-    process.off('SIGTERM', onSigint);
+    restore();
   }
 }
 

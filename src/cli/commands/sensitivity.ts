@@ -7,8 +7,8 @@ import { checkOutputFile } from '../figure-output.js';
 import { formatSensitivitySummary } from '../../analyze/index.js';
 import { readResultsMeta } from '../../io/arrow-schema.js';
 import { readTableSchema } from '../../io/table-reader.js';
-import { analyzeResultsFile, AUTO_SUMMARY_MAX_ROWS, sensitivityPathFor, writeSensitivityTable } from '../../run/sensitivity-file.js';
-import { CAPPED_HELP, parseCappedOption, type CappedChoice } from '../../run/capped-rows.js';
+import { analyzeResultsFile, AUTO_SUMMARY_MAX_ROWS, sensitivityPathFor, writeSensitivityTable } from '../../io/sensitivity-file.js';
+import { CAPPED_HELP, parseCappedOption, type CappedChoice } from '../../io/capped-rows.js';
 import { parseNumberOption } from '../options.js';
 
 /**

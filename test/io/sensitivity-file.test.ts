@@ -3,7 +3,7 @@ import fs from 'node:fs';
 import path from 'node:path';
 import { validateSweep } from '../../src/spec/index.js';
 import { runSweep } from '../../src/run/run-sweep.js';
-import { analyzeResultsFile, sensitivityPathFor, writeSensitivityTable } from '../../src/run/sensitivity-file.js';
+import { analyzeResultsFile, sensitivityPathFor, writeSensitivityTable } from '../../src/io/sensitivity-file.js';
 import { readTable, tmpDir } from '../helpers.js';
 
 const dir = tmpDir('sens');

@@ -11,10 +11,10 @@ import { planSweep } from '../plan/index.js';
 import { processNamed } from '../process/registry.js';
 import { didYouMean } from '../spec/suggest.js';
 import type { SweepSpec } from '../spec/types.js';
-import { readResultsMeta } from '../io/arrow-schema.js';
-import { writeFileAtomic } from '../io/ipc-file.js';
-import { formatFromExtension } from '../io/output-format.js';
-import { readTableBatches, readTableSchema } from '../io/table-reader.js';
+import { readResultsMeta } from './arrow-schema.js';
+import { writeFileAtomic } from './ipc-file.js';
+import { formatFromExtension } from './output-format.js';
+import { readTableBatches, readTableSchema } from './table-reader.js';
 import { TOOL_VERSION } from '../version.js';
 import { CAPPED_FLAG, cappedNote, type CappedChoice } from './capped-rows.js';
 
