@@ -49,7 +49,7 @@ function edgeDerivative(
   return NaN;
 }
 
-export const LOCAL_PERCENTILES = [0.1, 0.5, 0.9] as const;
+const LOCAL_PERCENTILES = [0.1, 0.5, 0.9] as const;
 
 export interface LocalDerivativeStats {
   /** 10th, 50th, 90th percentile of dy/dx over points with a derivative (NaN when none) */

@@ -26,7 +26,7 @@ type ParquetWasm = typeof PQ;
  * The library, loaded on first use: compiling its WebAssembly takes about 0.2 s, which commands
  * that never touch Parquet should not pay (node caches the module after the first import).
  */
-export function loadParquetWasm(): Promise<ParquetWasm> {
+function loadParquetWasm(): Promise<ParquetWasm> {
   return import('parquet-wasm');
 }
 
@@ -41,7 +41,7 @@ export interface ParquetWriteOptions {
 }
 
 /** Rows per Parquet row group unless told otherwise (bounds the writer's memory). */
-export const DEFAULT_ROW_GROUP_ROWS = 131_072;
+const DEFAULT_ROW_GROUP_ROWS = 131_072;
 
 /**
  * The value of meltsweep.data_crc32 while the file is written. The writer fixes its key-value
