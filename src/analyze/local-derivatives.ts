@@ -15,7 +15,7 @@
  */
 import { percentilesInPlace } from './stats.js';
 import type { EdgeRule } from './types.js';
-import type { GridGeometry } from './grid-variance.js';
+import { axisLayout, type GridGeometry } from './grid-variance.js';
 
 /**
  * Derivative where the central stencil is not available: two points above, else two below
@@ -84,11 +84,8 @@ export function gridLocalDerivatives(
   slopeBuf: Float64Array,
   elasticityBuf: Float64Array,
 ): LocalDerivativeStats {
-  const size = geom.sizes[axis];
-  const stride = geom.strides[axis];
+  const { size, stride, block, outer } = axisLayout(geom, axis);
   const values = geom.values[axis];
-  const block = size * stride;
-  const outer = geom.n / block;
   // positions along the axis in ascending value order, and per rank q: the row offsets (within a
   // block) of the point and its neighbours in value order (-1 = none) and the stencil weights
   const order = Array.from({ length: size }, (_, t) => t).sort((a, b) => values[a] - values[b]);

@@ -18,7 +18,7 @@ import fs from 'node:fs';
 import type * as PQ from 'parquet-wasm';
 import { crc32, crcHex, rangeCrc32 } from './checksum.js';
 import { DATA_CRC_KEY } from './checksummed-writer.js';
-import { discardTemporaryFile, openTemporaryFile, publishTemporaryFile, writeAllSync } from './ipc-file.js';
+import { abandonTemporaryFile, openTemporaryFile, publishTemporaryFile, throwWriteError, writeAllSync } from './ipc-file.js';
 
 type ParquetWasm = typeof PQ;
 
@@ -175,10 +175,7 @@ export class ParquetFileSink {
   }
 
   private check(): void {
-    if (this.writeError !== null) {
-      const e = this.writeError;
-      throw new Error(`cannot write ${this.tmpPath}: ${e instanceof Error ? e.message : String(e)}`);
-    }
+    throwWriteError(this.writeError, this.tmpPath);
   }
 
   /** Start the writer on the first batch (it reads the schema from it) and the byte pump to disk. */
@@ -232,13 +229,10 @@ export class ParquetFileSink {
   async abort(): Promise<void> {
     if (this.closed) return;
     this.closed = true;
-    try {
+    await abandonTemporaryFile(this.fd, this.tmpPath, async () => {
       await this.input.abort(new Error('aborted'));
       await this.pump;
-    } catch {
-      // already failing
-    }
-    discardTemporaryFile(this.fd, this.tmpPath);
+    });
   }
 }
 
