@@ -5,17 +5,16 @@
  * child process that signals itself while every kind of writer is open; the commands are stopped
  * at several moments of their work.
  */
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { beforeAll, describe, expect, it } from 'vitest';
 import { spawnSync, type ChildProcess } from 'node:child_process';
 import { once } from 'node:events';
 import fs from 'node:fs';
 import path from 'node:path';
 import { pathToFileURL } from 'node:url';
 import { setTimeout as sleep } from 'node:timers/promises';
-import { readTable, ROOT, runCliSync, spawnCli, tmpDir, writeSweep } from '../helpers.js';
+import { readTable, ROOT, runCliSync, scratchDir, spawnCli, writeSweep } from '../helpers.js';
 
-const dir = tmpDir('interrupts');
-afterAll(() => fs.rmSync(dir, { recursive: true, force: true }));
+const dir = scratchDir('interrupts');
 
 /** Names in `folder` a stopped command must not leave: temporaries and locks. */
 function leftovers(folder: string): string[] {
