@@ -1,5 +1,6 @@
 /**
- * Conductive columns per second on one core, at default accuracy (default grid, batch water), for a
+ * Conductive columns per second on one core, at the default tolerance (1e-3, grid-resolution control;
+ * or on the fixed default grid of before, `resolution: 1`), batch water, for a
  * fixed, deterministic mix of 1,000 scenarios: Tp 1280-1450 degC, water 0-300 ppm (every third
  * scenario dry), lid 0-30 km, upwelling 1-100 mm/yr spread evenly in log. Each repetition runs the set
  * repeatedly for at least 2 s; the figure is the median over 5 repetitions, with min and max.
@@ -27,6 +28,8 @@ export function conductiveBenchScenarios(count = 1000): Scenario[] {
 }
 
 export interface ConductiveBenchOptions {
+  /** a fixed grid (conductiveResolution) instead of the tolerance control */
+  readonly resolution?: number;
   readonly repetitions?: number;
   readonly minSeconds?: number;
   readonly scenarios?: number;
@@ -37,7 +40,7 @@ export async function benchConductive(opts: ConductiveBenchOptions = {}): Promis
   const repetitions = opts.repetitions ?? 5;
   const minSeconds = opts.minSeconds ?? 2;
   const scenarios = conductiveBenchScenarios(opts.scenarios ?? 1000);
-  const model: ModelOptions = { thermal: 'conductive', water: 'batch', params: DEFAULT_PARAMS };
+  const model: ModelOptions = { thermal: 'conductive', water: 'batch', params: DEFAULT_PARAMS, ...(opts.resolution === undefined ? {} : { conductiveResolution: opts.resolution }) };
   let sink = 0;
   let failed = 0;
   const once = (): void => {
@@ -51,10 +54,13 @@ export async function benchConductive(opts: ConductiveBenchOptions = {}): Promis
   if (failed > 0) throw new Error(`bench: ${failed} conductive columns failed`);
   const rates = await measureRates(once, scenarios.length, repetitions, minSeconds);
   if (!Number.isFinite(sink)) throw new Error('bench: non-finite crust');
-  return summarise('conductive column (CPU time, one core)', 'columns/s', rates.cpu);
+  const how = opts.resolution === undefined ? 'default tolerance 1e-3' : `fixed grid, resolution ${opts.resolution} (before)`;
+  return summarise(`conductive column, ${how} (CPU time, one core)`, 'columns/s', rates.cpu);
 }
 
 if (isMain(import.meta.url)) {
   const r = await benchConductive();
   process.stdout.write(`${formatBench(r)}\n`);
+  const fixed = await benchConductive({ resolution: 1 });
+  process.stdout.write(`${formatBench(fixed)}\n`);
 }

@@ -63,6 +63,7 @@ async function main(): Promise<void> {
   const flux = await benchFluxColumn({ repetitions: quick ? 3 : 5 });
   log('conductive column');
   const conductive = await benchConductive({ repetitions: quick ? 3 : 5 });
+  const conductiveFixed = await benchConductive({ repetitions: quick ? 3 : 5, resolution: 1 });
   log('sweep scaling');
   const sweep = await benchSweep(quick ? 100_000 : 200_000, 3);
   log('Arrow writer');
@@ -81,6 +82,7 @@ async function main(): Promise<void> {
     row(column.wall, null),
     row(columnFixed, null),
     row(conductive, 10_000),
+    row(conductiveFixed, null),
     row(flux, 20_000),
     row(flux.wall, null),
     ...sweep.byWorkers.map((b) => row(b, null)),
@@ -144,7 +146,7 @@ async function main(): Promise<void> {
     },
   ];
   process.stdout.write(`${printTable(rows)}\n`);
-  const results = { header, quick, cores, node: process.version, column, columnFixed, conductive, flux, sweep, writer, baseline, big, fitCore, fitFile, efficiencyTwoWorkers: two ?? null };
+  const results = { header, quick, cores, node: process.version, column, columnFixed, conductive, conductiveFixed, flux, sweep, writer, baseline, big, fitCore, fitFile, efficiencyTwoWorkers: two ?? null };
   const out = path.join(path.dirname(fileURLToPath(import.meta.url)), '..', '..', 'bench', 'results.json');
   fs.writeFileSync(out, `${JSON.stringify(results, null, 2)}\n`);
   process.stdout.write(`results written to ${path.relative(process.cwd(), out) || out}\n`);

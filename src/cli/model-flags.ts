@@ -7,7 +7,7 @@ import { InputError } from '../errors.js';
 import { checkRangeValue, formatRange, STEP_GPA_RANGE, type InputRange } from '../physics/ranges.js';
 import { allProcesses } from '../process/registry.js';
 import type { AnyProcess } from '../process/types.js';
-import { TOLERANCE_DEFAULT, TOLERANCE_MAX, TOLERANCE_MIN } from '../spec/limits.js';
+import { CONDUCTIVE_TOLERANCE_DEFAULT, CONDUCTIVE_TOLERANCE_MIN, TOLERANCE_DEFAULT, TOLERANCE_MAX, TOLERANCE_MIN } from '../spec/limits.js';
 import { ProblemList } from '../spec/problems.js';
 import type { ModelSpec } from '../spec/types.js';
 
@@ -43,7 +43,7 @@ export const MODEL_FLAG_HELP = {
   mode: 'water mode: batch or fractional (default batch)',
   thermal: 'thermal model: isentropic, conductive, auto (default auto: conductive with --upwelling, else isentropic)',
   step: `isentropic column: a fixed pressure step (${formatRange(STEP_GPA_RANGE)}) instead of error control`,
-  tolerance: `isentropic column: relative tolerance of the error-controlled steps (${TOLERANCE_MIN}-${TOLERANCE_MAX}, default ${TOLERANCE_DEFAULT})`,
+  tolerance: `relative tolerance of every output (${TOLERANCE_MIN}-${TOLERANCE_MAX}; conductive ${CONDUCTIVE_TOLERANCE_MIN}-${TOLERANCE_MAX}); default ${TOLERANCE_DEFAULT} isentropic, ${CONDUCTIVE_TOLERANCE_DEFAULT} conductive`,
   deepOnset: 'onset deeper than 8 GPa: drop (status onset_beyond_range, default) or cap (computed from 8 GPa up, marked onset_capped)',
 } as const;
 

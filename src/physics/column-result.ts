@@ -30,7 +30,10 @@ import type { ColumnProfile, ColumnResult, ModelOptions, Scenario } from './type
 import { RESULT_NUMERIC_NAMES } from './fields.js';
 import { depthKmFromPGpa, PA_PER_GPA } from './units.js';
 
-/** A thermal model: computes one column. Must not throw (failures are `failed` rows). */
+/**
+ * A thermal model: computes one column. Expected failures are `failed` rows with a reason; an
+ * unexpected exception may escape and is turned into a `failed` row by meltColumn, the one guard.
+ */
 export type ColumnFn = (scenario: Scenario, model: ModelOptions) => ColumnResult;
 
 /** What a thermal model reports about a column that melted. Pressures in GPa. */

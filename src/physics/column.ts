@@ -4,7 +4,6 @@
  */
 import { failedResult, type ColumnFn } from './column-result.js';
 import { conductiveColumn } from './conductive-column.js';
-import { DEFAULT_TOLERANCE } from './isentropic-adaptive.js';
 import { isentropicColumn } from './isentropic-column.js';
 import { DEFAULT_PARAMS } from './params.js';
 import type { ColumnResult, ModelOptions, Scenario, ThermalModel } from './types.js';
@@ -30,15 +29,22 @@ export function resolveThermalModel(scenario: Scenario, model: ModelOptions): Th
  *
  * @param scenario tp_c (degC), water_ppm (ppm), lid_km (km), upwelling_mm_yr (mm/yr, NaN when absent)
  * @param model thermal model (`auto`: conductive with an upwelling rate, else isentropic), water mode,
- *   parameters, isentropic accuracy (tolerance, default 1e-4, or a fixed stepGpa) and whether to return the profile
+ *   parameters, accuracy (tolerance: default 1e-4 isentropic, 1e-3 conductive; or a fixed stepGpa /
+ *   conductiveResolution) and whether to return the profile
  */
 export function meltColumn(scenario: Scenario, model: ModelOptions): ColumnResult {
-  // one guard per layer, not stacked: each thermal model never throws and checks its rows are
-  // finite (ColumnFn contract, column-result.ts); computeChunk guards the process boundary
+  // the physics' one never-throw guard: the thermal models may throw (ColumnFn contract) and check
+  // their rows are finite; computeChunk guards the process boundary for any process, plug-ins included
   const name = resolveThermalModel(scenario, model);
   const fn = Object.prototype.hasOwnProperty.call(THERMAL_MODELS, name) ? THERMAL_MODELS[name] : undefined;
   if (fn === undefined) return withCapFields(failedResult(`unknown thermal model ${String(model.thermal)}`), model);
-  return withCapFields(fn(scenario, model), model);
+  let row: ColumnResult;
+  try {
+    row = fn(scenario, model);
+  } catch (err) {
+    row = failedResult(`${name} column: ${err instanceof Error ? err.message : String(err)}`);
+  }
+  return withCapFields(row, model);
 }
 
 /**
@@ -55,15 +61,16 @@ function withCapFields(row: ColumnResult, model: ModelOptions): ColumnResult {
 
 /**
  * ModelOptions with the defaults: thermal `auto`, water `batch`, DEFAULT_PARAMS (Katz et al. 2003
- * Table 2 and the project conventions), tolerance 1e-4 (error-controlled isentropic steps; give
- * stepGpa for a fixed step, which then takes precedence), no profile; any field can be overridden.
+ * Table 2 and the project conventions), no tolerance (each column's default: 1e-4 for the
+ * error-controlled isentropic steps, 1e-3 for the conductive grid control; give stepGpa for a fixed
+ * isentropic step, or conductiveResolution for a fixed conductive grid), no profile; any field can
+ * be overridden.
  */
 export function defaultModel(overrides: Partial<ModelOptions> = {}): ModelOptions {
   return {
     thermal: 'auto',
     water: 'batch',
     params: DEFAULT_PARAMS,
-    tolerance: DEFAULT_TOLERANCE,
     withProfile: false,
     ...overrides,
   };

@@ -218,24 +218,38 @@ function newtonStage(
 }
 
 /**
- * Solve the steady column for upwelling rate wMPerS (m/s). Tries Newton from the isentropic guess;
- * if that fails, continues in w from 300x faster down to the target.
+ * Solve the steady column for upwelling rate wMPerS (m/s). Tries Newton from guessTK (temperatures at
+ * the nodes, K) when given, then from the isentropic guess; if that fails, continues in w from 300x
+ * faster down to the target.
  * Never throws for a bad iteration: returns converged = false with a reason.
  */
 export function solveConductiveSystem(
   sys: ConductiveSystem,
   wMPerS: number,
   options: ConductiveSolveOptions,
+  guessTK?: Float64Array,
 ): ConductiveSolution {
   const nodes = sys.zM.length;
   const w = allocWork(nodes);
   const a = allocState(nodes);
   const b = allocState(nodes);
   const maxIt = Math.max(1, Math.floor(options.maxIterations));
-  initialGuess(sys, w, wMPerS, a);
   let total = 0;
-  let stage = newtonStage(sys, w, wMPerS, a, b, maxIt);
-  total += stage.iterations;
+  let stage: StageOutcome | undefined;
+  if (guessTK !== undefined && guessTK.length === nodes) {
+    // a warm start (the same column on a coarser grid): every node set by its temperature
+    a.tK.set(guessTK);
+    a.tK[nodes - 1] = sys.tBottomK;
+    a.byT.fill(1);
+    a.fEq.fill(0);
+    stage = newtonStage(sys, w, wMPerS, a, b, maxIt);
+    total += stage.iterations;
+  }
+  if (stage === undefined || !stage.converged) {
+    initialGuess(sys, w, wMPerS, a);
+    stage = newtonStage(sys, w, wMPerS, a, b, maxIt);
+    total += stage.iterations;
+  }
   if (!stage.converged) {
     // continuation from fast upwelling (nearly isentropic, easy) down to the target rate; a stage
     // that fails is retried from the last converged state with a smaller ratio of rates

@@ -244,7 +244,8 @@ export function integrateIsentropicPath(
 /**
  * One isentropic column: solid adiabat from Tp, onset of melting (findMeltOnset), isentropic
  * ascent to the base of the lid (integrateIsentropicPath), aggregates by meltingResult.
- * Never throws: problems give a `failed` row with a reason.
+ * Expected problems give a `failed` row with a reason; an unexpected exception escapes to meltColumn,
+ * the physics' one never-throw guard.
  *
  * @param scenario tp_c (degC), water_ppm (ppm), lid_km (km), upwelling_mm_yr (mm/yr or NaN;
  *   used only for melt_flux_kg_m2_yr)
@@ -252,49 +253,45 @@ export function integrateIsentropicPath(
  *   1e-4, error-controlled: isentropic-adaptive.ts), withProfile
  */
 export function isentropicColumn(scenario: Scenario, model: ModelOptions): ColumnResult {
-  try {
-    const p = model.params;
-    const { tp_c: tpC, water_ppm: waterPpm } = scenario;
-    const checked = checkColumnInputs(scenario, p);
-    if (!checked.ok) return failedResult(checked.reason);
-    if (model.water !== 'batch' && model.water !== 'fractional') return failedResult(`unknown water mode ${String(model.water)}`);
-    // an explicit step is the fixed-step path (as before tolerances existed); else error control
-    const stepGpa = model.stepGpa;
-    if (stepGpa !== undefined && !(Number.isFinite(stepGpa) && stepGpa > 0)) return failedResult(`step must be a positive number of GPa, got ${String(stepGpa)}`);
-    const tolerance = model.tolerance ?? DEFAULT_TOLERANCE;
-    if (stepGpa === undefined && !(tolerance >= TOLERANCE_MIN && tolerance <= TOLERANCE_MAX)) {
-      return failedResult(`tolerance must be a number in ${TOLERANCE_MIN}-${TOLERANCE_MAX}, got ${String(tolerance)}`);
-    }
-
-    const x0 = wtPctFromPpm(waterPpm);
-    const pTop = checked.pLidGpa;
-    const onset = findMeltOnset(tpC, x0, pTop, p);
-    if (onset.kind === 'none') return noMeltResult(scenario.upwelling_mm_yr);
-    if (onset.kind === 'beyond' && model.deepOnset !== 'cap') return onsetBeyondRangeResult(beyondRangeReason(onset));
-    // a capped onset starts melted at the deepest covered pressure (capped-onset.ts)
-    const start = onset.kind === 'beyond' ? cappedStart(tpC, x0, onset.pMaxGpa, model.water, p) : undefined;
-    const onsetPGpa = onset.kind === 'beyond' ? onset.pMaxGpa : onset.pGpa;
-    const path =
-      stepGpa !== undefined
-        ? integrateIsentropicPath(tpC, x0, onsetPGpa, pTop, model.water, p, stepGpa, model.withProfile === true, start)
-        : integrateIsentropicPathAdaptive(tpC, x0, onsetPGpa, pTop, model.water, p, tolerance, model.withProfile === true, start);
-    return meltingResult(
-      {
-        onsetPGpa,
-        ...(start === undefined ? {} : { fOnset: start.f }),
-        topPGpa: pTop,
-        fMax: path.fMax,
-        fTop: path.fTop,
-        tTopC: path.tTopC,
-        meltIntegralGpa: path.meltIntegralGpa,
-        waterIntegralWtPctGpa: path.waterIntegralWtPctGpa,
-        surfaceHeatFlowMwM2: null,
-        profile: path.profile,
-      },
-      scenario,
-      p,
-    );
-  } catch (err) {
-    return failedResult(`isentropic column: ${err instanceof Error ? err.message : String(err)}`);
+  const p = model.params;
+  const { tp_c: tpC, water_ppm: waterPpm } = scenario;
+  const checked = checkColumnInputs(scenario, p);
+  if (!checked.ok) return failedResult(checked.reason);
+  if (model.water !== 'batch' && model.water !== 'fractional') return failedResult(`unknown water mode ${String(model.water)}`);
+  // an explicit step is the fixed-step path (as before tolerances existed); else error control
+  const stepGpa = model.stepGpa;
+  if (stepGpa !== undefined && !(Number.isFinite(stepGpa) && stepGpa > 0)) return failedResult(`step must be a positive number of GPa, got ${String(stepGpa)}`);
+  const tolerance = model.tolerance ?? DEFAULT_TOLERANCE;
+  if (stepGpa === undefined && !(tolerance >= TOLERANCE_MIN && tolerance <= TOLERANCE_MAX)) {
+    return failedResult(`tolerance must be a number in ${TOLERANCE_MIN}-${TOLERANCE_MAX}, got ${String(tolerance)}`);
   }
+
+  const x0 = wtPctFromPpm(waterPpm);
+  const pTop = checked.pLidGpa;
+  const onset = findMeltOnset(tpC, x0, pTop, p);
+  if (onset.kind === 'none') return noMeltResult(scenario.upwelling_mm_yr);
+  if (onset.kind === 'beyond' && model.deepOnset !== 'cap') return onsetBeyondRangeResult(beyondRangeReason(onset));
+  // a capped onset starts melted at the deepest covered pressure (capped-onset.ts)
+  const start = onset.kind === 'beyond' ? cappedStart(tpC, x0, onset.pMaxGpa, model.water, p) : undefined;
+  const onsetPGpa = onset.kind === 'beyond' ? onset.pMaxGpa : onset.pGpa;
+  const path =
+    stepGpa !== undefined
+      ? integrateIsentropicPath(tpC, x0, onsetPGpa, pTop, model.water, p, stepGpa, model.withProfile === true, start)
+      : integrateIsentropicPathAdaptive(tpC, x0, onsetPGpa, pTop, model.water, p, tolerance, model.withProfile === true, start);
+  return meltingResult(
+    {
+      onsetPGpa,
+      ...(start === undefined ? {} : { fOnset: start.f }),
+      topPGpa: pTop,
+      fMax: path.fMax,
+      fTop: path.fTop,
+      tTopC: path.tTopC,
+      meltIntegralGpa: path.meltIntegralGpa,
+      waterIntegralWtPctGpa: path.waterIntegralWtPctGpa,
+      surfaceHeatFlowMwM2: null,
+      profile: path.profile,
+    },
+    scenario,
+    p,
+  );
 }

@@ -11,7 +11,7 @@ import { COLUMN_STATUSES, type ColumnResult, type ModelOptions, type Scenario } 
 import { sampleColumnProfile } from '../run/profile-sampling.js';
 import { MODEL_KEYS, normalizeDecompressionModel, validateModel, type DecompressionModelSpec } from '../spec/validate-model.js';
 import { INPUT_DEFAULTS } from '../spec/input-defaults.js';
-import { TOLERANCE_DEFAULT } from '../spec/limits.js';
+import { CONDUCTIVE_TOLERANCE_MIN, TOLERANCE_MAX } from '../spec/limits.js';
 import type { ModelSpec } from '../spec/types.js';
 import type { InputDef, ProcessDefinition, ProcessResult, ResultDef } from './types.js';
 
@@ -58,12 +58,13 @@ export const decompression: ProcessDefinition<ModelOptions> = {
   statuses: COLUMN_STATUSES,
   model: {
     keys: MODEL_KEYS,
-    defaults: Object.freeze({ thermal: 'auto', water: 'batch', params: {}, tolerance: TOLERANCE_DEFAULT }),
+    defaults: Object.freeze({ thermal: 'auto', water: 'batch', params: {} }),
     validate: validateModel,
-    normalize: (m: ModelSpec) => normalizeDecompressionModel(m as DecompressionModelSpec),
+    normalize: (m: ModelSpec, given?: ReadonlySet<string>) => normalizeDecompressionModel(m as DecompressionModelSpec, given),
     summary(m) {
       const model = m as DecompressionModelSpec;
-      const accuracy = model.step_gpa !== undefined ? `step ${model.step_gpa} GPa` : `tolerance ${model.tolerance ?? TOLERANCE_DEFAULT}`;
+      const accuracy =
+        model.step_gpa !== undefined ? `step ${model.step_gpa} GPa` : model.tolerance !== undefined ? `tolerance ${model.tolerance}` : 'default tolerance';
       const deep = model.deep_onset === 'cap' ? ', onsets deeper than 8 GPa capped' : '';
       return `thermal ${model.thermal}, water ${model.water}, ${accuracy}${deep}`;
     },
@@ -77,6 +78,12 @@ export const decompression: ProcessDefinition<ModelOptions> = {
           `"fractional" cannot run with a conductive column${why}: the conductive model computes batch water only; use water: batch, or thermal: isentropic`,
         );
       }
+      if (conductive && m.tolerance !== undefined && m.tolerance < CONDUCTIVE_TOLERANCE_MIN) {
+        problems.add(
+          'model.tolerance',
+          `${m.tolerance} is below the conductive column's allowed range ${CONDUCTIVE_TOLERANCE_MIN}-${TOLERANCE_MAX} (relative); its grid control stops at 64 times the default resolution`,
+        );
+      }
       if (m.thermal !== 'conductive' || given.has('upwelling_mm_yr')) return;
       problems.add('model.thermal', '"conductive" needs an upwelling rate; sweep upwelling_mm_yr under axes or set it under fixed');
     },
@@ -87,7 +94,8 @@ export const decompression: ProcessDefinition<ModelOptions> = {
       thermal: model.thermal,
       water: model.water,
       params: resolveParams(model.params),
-      ...(model.step_gpa !== undefined ? { stepGpa: model.step_gpa } : { tolerance: model.tolerance ?? TOLERANCE_DEFAULT }),
+      // without a tolerance (a section not normalized, e.g. from `column` flags) each column uses its own default
+      ...(model.step_gpa !== undefined ? { stepGpa: model.step_gpa } : model.tolerance !== undefined ? { tolerance: model.tolerance } : {}),
       withProfile: options.withProfile,
       deepOnset: model.deep_onset ?? 'drop',
     };

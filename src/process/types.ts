@@ -62,8 +62,11 @@ export interface ProcessModelOptions {
    * for `meltsweep schema`; without it the sweep-file schema checks the keys by name only.
    */
   validate(raw: Readonly<Record<string, unknown>>, problems: ProblemList, context?: ModelContext): ModelSpec | undefined;
-  /** the canonical form of an already valid section (used by normalizeSweep) */
-  normalize(model: ModelSpec): ModelSpec;
+  /**
+   * the canonical form of an already valid section (used by normalizeSweep); `given` names the
+   * sweep's swept and fixed inputs, for defaults that depend on them
+   */
+  normalize(model: ModelSpec, given?: ReadonlySet<string>): ModelSpec;
   /**
    * Checks that need the model and the inputs a sweep gives (swept or fixed), e.g. "conductive
    * needs an upwelling rate". Optional.

@@ -26,7 +26,7 @@ import { renderSvg, type PlotSpec } from './render.js';
 import { resolveReportOptions, type ReportOptions } from './report-options.js';
 import { metadataSection } from './report-metadata.js';
 import { readResultsColumns, readResultsInfo, type ResultsColumns } from './results-columns.js';
-import { mainEffectsSpec, sensitivityBarsSpec } from './sensitivity-bars.js';
+import { mainEffectsSpec, sensitivityBarsLayout } from './sensitivity-bars.js';
 import { binnedMap, gridSliceMap, mapSubtitle } from './sweep-map.js';
 import { mapFigureLayout } from './map-figure.js';
 import { renderFigure, type FigureLayout } from './figure.js';
@@ -121,7 +121,7 @@ export async function buildHtmlReport(file: string, options: ReportOptions = {})
     analysisNotes.push(...report.warnings, ...report.notes.filter((n) => n !== cappedText));
     const logInputs = new Set<string>(spec.axes.filter((a) => a.scale === 'log').map((a) => a.name));
     for (const output of opts.outputs) {
-      const bars = sensitivityBarsSpec(report.records, output, report.inputs, { labels });
+      const bars = sensitivityBarsLayout(report.records, output, report.inputs, labels);
       const curves = mainEffectsSpec(report.mainEffects, output, { labels, logInputs });
       const pair: string[] = [];
       const hasTotal = report.records.some((r) => r.output === output && r.measure === 'ST' && r.value !== null);

@@ -21,7 +21,7 @@ export {
 export { gridSliceMap, binnedMap, mapSubtitle, cellEdges, defaultBins, middleValue, nearestValue, type MapCell, type SweepMapData } from './sweep-map.js';
 export { sweepMapSpec, mapFigureLayout, mapContourLines, MAP_MARKS, type MapFigureOptions } from './map-figure.js';
 export { contourLevels, contourSegments, type ContourLevel, type ContourSegment, type NodeGrid } from './map-contours.js';
-export { sensitivityBarsSpec, mainEffectsSpec, indexBars, type IndexBar } from './sensitivity-bars.js';
+export { sensitivityBarsSpec, sensitivityBarsLayout, mainEffectsSpec, indexBars, type IndexBar } from './sensitivity-bars.js';
 export { buildHtmlReport, writeHtmlReport, representativeRows, type HtmlReport, type ReportPlotKind } from './html-report.js';
 export { resolveReportOptions, parseAtOption, DEFAULT_REPORT_OUTPUTS, type ReportOptions, type ResolvedReportOptions } from './report-options.js';
 export { readResultsColumns, readResultsInfo, type ResultsColumns, type ResultsFileInfo } from './results-columns.js';

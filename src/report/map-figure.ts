@@ -17,7 +17,8 @@
 import { contourLevels, type ContourLevel } from './map-contours.js';
 import { keyPanel, wrappedTitle, type FigureLayout, type KeyEntry } from './figure.js';
 import { textWidthPx } from './font.js';
-import { formatNumber, labelsOfProcess, shortDescription, UNIT_SPACE } from './labels.js';
+import { labelsFit } from './ticks.js';
+import { formatNumber, labelsOfProcess, UNIT_SPACE } from './labels.js';
 import type { PlotSpec } from './render.js';
 import { mapSubtitle, type MapCell, type SweepMapData } from './sweep-map.js';
 import { HAIRLINE, HEATMAP_SCHEME, INK, NO_VALUE_FILL, PAPER } from './theme.js';
@@ -44,7 +45,7 @@ const CONTOUR_LABEL_SIZE = 10;
 export interface MapFigureOptions {
   /** output values to draw contour lines of */
   readonly contours?: readonly number[];
-  /** title (default: the output's description) */
+  /** title (default: the output's label, e.g. "Crust thickness") */
   readonly title?: string;
   /** width of the map panel, px (default 300) */
   readonly width?: number;
@@ -63,21 +64,6 @@ interface DrawAxis {
   readonly axis: Record<string, unknown>;
   /** drawing unit -> value (for contour coordinates in data units) */
   readonly toValue: (u: number) => number;
-}
-
-/** Decade ticks (1, 2, 5 x 10^k) inside [lo, hi]; finer mantissas when fewer than three fall inside. */
-export function logTicks(lo: number, hi: number): number[] {
-  for (const mantissas of [[1], [1, 2, 5], [1, 2, 3, 4, 5, 6, 7, 8, 9]]) {
-    const out: number[] = [];
-    for (let e = Math.floor(Math.log10(lo)) - 1; e <= Math.ceil(Math.log10(hi)); e++) {
-      for (const m of mantissas) {
-        const v = Number((m * 10 ** e).toPrecision(12));
-        if (v >= lo * (1 - 1e-12) && v <= hi * (1 + 1e-12)) out.push(v);
-      }
-    }
-    if (out.length >= 3 || mantissas.length === 9) return out;
-  }
-  return [];
 }
 
 /** A category axis: one cell per grid value, ticks on every cell, labels thinned so they do not touch. */
@@ -101,14 +87,55 @@ function categoryAxis(values: readonly number[], cellPx: number, horizontal: boo
   };
 }
 
-/** A continuous axis over bin edges (log10 drawing units on log axes). */
-function continuousAxis(edges: readonly number[], centres: readonly number[], log: boolean): DrawAxis {
+/** A bin edge as its tick label: the value itself on linear axes (round bin widths), 2 significant digits on log axes. */
+function edgeLabel(v: number, log: boolean): string {
+  return log ? String(Number(v.toPrecision(2))) : formatNumber(v);
+}
+
+/**
+ * Ticks of a binned axis, always on bin edges: on linear axes the edges that are multiples of the
+ * smallest round step (1, 2, 2.5 or 5 x 10^k, a whole number of bins) whose labels do not touch; on log axes every
+ * s-th edge from the first (the axis starts at the data), s the smallest that fits,
+ * preferring strides that land on whole decades from the first edge.
+ */
+export function edgeTicks(edges: readonly number[], log: boolean, lengthPx: number, along: 'x' | 'y'): number[] {
+  const t = log ? Math.log10 : (v: number) => v;
+  const lo = t(edges[0]);
+  const span = t(edges[edges.length - 1]) - lo || 1;
+  const px = (v: number): number => ((t(v) - lo) / span) * lengthPx;
+  const fits = (ticks: readonly number[]): boolean => labelsFit(ticks.map(px), ticks.map((v) => edgeLabel(v, log)), along);
+  const strides = [1, 2, 3, 4, 5, 6, 8, 10, 12, 15, 20, 25, 30, 40, 50, 100];
+  if (log) {
+    // whole decades from the first edge first (bins per decade d: strides that divide d or are multiples of it)
+    const perDecade = edges.length > 1 ? Math.max(1, Math.round(1 / Math.log10(edges[1] / edges[0]))) : 1;
+    const divisors = Array.from({ length: perDecade }, (_, k) => k + 1).filter((s) => perDecade % s === 0);
+    const aligned = [...divisors, ...[2, 3, 5, 10].map((m) => m * perDecade)];
+    for (const s of [...aligned, ...strides.filter((x) => !aligned.includes(x))]) {
+      const ticks = edges.filter((_, k) => k % s === 0);
+      if (ticks.length < 2 || fits(ticks)) return ticks;
+    }
+    return [edges[0]];
+  }
+  const step = edges.length > 1 ? edges[1] - edges[0] : 1;
+  // round tick steps (1, 2, 2.5, 5 x 10^k) that are whole numbers of bins, smallest first
+  const e0 = Math.floor(Math.log10(step));
+  const bigSteps = [0, 1, 2, 3, 4].flatMap((k) => [1, 2, 2.5, 5].map((m) => Number((m * 10 ** (e0 + k)).toPrecision(12)))).filter((v) => v >= step * (1 - 1e-9) && Math.abs(v / step - Math.round(v / step)) < 1e-6);
+  for (const big of bigSteps) {
+    const ticks = edges.filter((v) => Math.abs(v / big - Math.round(v / big)) < 1e-6);
+    if (ticks.length >= 2 && fits(ticks)) return ticks;
+  }
+  return [edges[0], edges[edges.length - 1]];
+}
+
+/** A continuous axis over bin edges (log10 drawing units on log axes), ticks on the edges. */
+function continuousAxis(edges: readonly number[], centres: readonly number[], log: boolean, lengthPx: number, along: 'x' | 'y'): DrawAxis {
   const t = log ? Math.log10 : (v: number) => v;
   const lo = edges[0];
   const hi = edges[edges.length - 1];
-  const axis: Record<string, unknown> = log
-    ? { values: logTicks(lo, hi).map(Math.log10), labelExpr: "format(pow(10, datum.value), '.4~r')", grid: false }
-    : { tickCount: 6, grid: false };
+  const ticks = edgeTicks(edges, log, lengthPx, along);
+  const positions = ticks.map(t);
+  const labels = ticks.map((v) => edgeLabel(v, log));
+  const axis: Record<string, unknown> = { values: positions, labelExpr: `${JSON.stringify(labels)}[indexof(${JSON.stringify(positions)}, datum.value)]`, grid: false, labelOverlap: false, labelFlush: false };
   return {
     lo: (k) => t(edges[k]),
     hi: (k) => t(edges[k + 1]),
@@ -132,7 +159,7 @@ function edgesOf(cells: readonly MapCell[], n: number, along: 'x' | 'y'): number
 
 function drawAxes(map: SweepMapData, width: number, height: number): { x: DrawAxis; y: DrawAxis } {
   if (map.mode === 'slice') return { x: categoryAxis(map.xValues, width / map.nx, true), y: categoryAxis(map.yValues, height / map.ny, false) };
-  return { x: continuousAxis(edgesOf(map.cells, map.nx, 'x'), map.xValues, map.xLog), y: continuousAxis(edgesOf(map.cells, map.ny, 'y'), map.yValues, map.yLog) };
+  return { x: continuousAxis(edgesOf(map.cells, map.nx, 'x'), map.xValues, map.xLog, width, 'x'), y: continuousAxis(edgesOf(map.cells, map.ny, 'y'), map.yValues, map.yLog, height, 'y') };
 }
 
 /** The cell value as written in a cell: 3 significant digits, no thousands separator. */
@@ -311,7 +338,7 @@ export function sweepMapSpec(map: SweepMapData, options: MapFigureOptions = {}):
   const keyWidth = width + 40;
   const key = entries.length > 0 ? keyPanel([{ entries }], keyWidth) : null;
   const main = { width, height, layer: layers };
-  const title = wrappedTitle(options.title ?? shortDescription(info), [`${map.output}; ${mapSubtitle(map)}`], keyWidth);
+  const title = wrappedTitle(options.title ?? labels.heading(map.output), [`${map.output}; ${mapSubtitle(map)}`], keyWidth);
   // the key's marks carry their own colours (scale null): its colour scale must not be shared with the map's
   const spec =
     key === null

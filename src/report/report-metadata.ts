@@ -110,7 +110,7 @@ export function metadataSection(meta: ResultsTableMeta, spec: SweepSpec, table: 
 </div>
 <div class="cols">
 <div><h3>Swept inputs</h3>${spec.axes.length > 0 ? axes : '<p class="meta">none</p>'}</div>
-<div><h3>Constant inputs</h3>${fixed}</div>
+<div><h3>Constant inputs</h3>${inputsOfSpec(spec).some((i) => !swept.has(i.name)) ? fixed : '<p class="meta">none: every input is swept</p>'}</div>
 </div>
 <details><summary>${escapeHtml(`Model parameters (${PARAM_NAMES.filter((n) => meta.params[n] !== PARAM_INFO[n].value).length} changed from the defaults)`)}</summary>${params}</details>`;
 }

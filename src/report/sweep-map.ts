@@ -142,64 +142,81 @@ export function defaultBins(n: number): number {
 /** Most cells a map draws one by one; larger grid slices are binned. */
 export const MAX_MAP_CELLS = 10_000;
 
+/** Bin widths of linear map axes: 1, 2, 2.5 or 5 x 10^k. */
+const NICE_MANTISSAS = [1, 2, 2.5, 5];
+
 /**
- * Samples of a non-grid design binned onto a regular bins x bins grid over the ranges of x and y
- * (log-spaced on log axes); each cell holds the mean of the finite output values in it. `include`
- * restricts the rows (default: every row).
+ * Bin edges over [min, max] for about `bins` bins.
+ * - Linear axes: a round bin width (1, 2, 2.5 or 5 x 10^k, the nearest to (max - min) / bins) with
+ *   edges on its multiples, so ticks on the edges read as round numbers (1400, 1450, ...); the
+ *   first and last bins may reach a little beyond the range to the next multiple.
+ * - Log axes: a whole number of bins per decade, starting at min (a log axis starts at the data),
+ *   so every decade from min (5, 50, 500 ppm) is an edge; the last edge is max.
+ */
+export function binEdges(min: number, max: number, bins: number, log: boolean): number[] {
+  if (log && min > 0 && max > min) {
+    const decades = Math.log10(max / min);
+    const perDecade = Math.max(1, Math.round(bins / decades));
+    // the last edge is max itself: the last bin is up to half a bin wider or narrower than the others
+    const n = Math.max(1, Math.round(decades * perDecade));
+    return Array.from({ length: n + 1 }, (_, k) => (k === n ? max : Number((min * 10 ** (k / perDecade)).toPrecision(12))));
+  }
+  if (!(max > min)) return Array.from({ length: bins + 1 }, (_, i) => min + i / bins);
+  const raw = (max - min) / bins;
+  const e = Math.floor(Math.log10(raw));
+  const candidates = [e - 1, e, e + 1].flatMap((k) => NICE_MANTISSAS.map((m) => m * 10 ** k));
+  const step = candidates.reduce((best, c) => (Math.abs(Math.log(c / raw)) < Math.abs(Math.log(best / raw)) ? c : best));
+  const first = Math.floor(min / step + 1e-9);
+  const last = Math.ceil(max / step - 1e-9);
+  return Array.from({ length: Math.max(1, last - first) + 1 }, (_, k) => Number(((first + k) * step).toPrecision(12)));
+}
+
+/** The bin of v among ascending edges (values outside go to the first or last bin). */
+function binIndex(edges: readonly number[], v: number): number {
+  let lo = 0;
+  let hi = edges.length - 2;
+  while (lo < hi) {
+    const mid = (lo + hi + 1) >> 1;
+    if (edges[mid] <= v) lo = mid;
+    else hi = mid - 1;
+  }
+  return lo;
+}
+
+/**
+ * Samples of a non-grid design binned onto about bins x bins cells over the ranges of x and y
+ * (binEdges: round bin widths, or log-spaced on log axes); each cell holds the mean of the finite
+ * output values in it. `include` restricts the rows (default: every row).
  */
 export function binnedMap(table: ResultsColumns, spec: SweepSpec, output: string, x: string, y: string, bins = defaultBins(table.rows), include: (row: number) => boolean = () => true): SweepMapData {
   const ax = axisOf(spec, x);
   const ay = axisOf(spec, y);
-  const edgesOf = (a: AxisSpec): number[] => {
-    const log = a.scale === 'log' && a.min > 0;
-    const lo = log ? Math.log(a.min) : a.min;
-    const hi = log ? Math.log(a.max) : a.max;
-    const span = hi > lo ? hi - lo : 1;
-    return Array.from({ length: bins + 1 }, (_, i) => (log ? Math.exp(lo + (span * i) / bins) : lo + (span * i) / bins));
-  };
-  const xe = edgesOf(ax);
-  const ye = edgesOf(ay);
-  const binOf = (edges: readonly number[], v: number, log: boolean): number => {
-    const lo = log ? Math.log(edges[0]) : edges[0];
-    const hi = log ? Math.log(edges[bins]) : edges[bins];
-    const t = log ? Math.log(v) : v;
-    const k = Math.floor(((t - lo) / (hi - lo || 1)) * bins);
-    return Math.min(bins - 1, Math.max(0, k));
-  };
-  const sum = new Float64Array(bins * bins);
-  const cnt = new Float64Array(bins * bins);
+  const xLog = ax.scale === 'log' && ax.min > 0;
+  const yLog = ay.scale === 'log' && ay.min > 0;
+  const xe = binEdges(ax.min, ax.max, bins, xLog);
+  const ye = binEdges(ay.min, ay.max, bins, yLog);
+  const nx = xe.length - 1;
+  const ny = ye.length - 1;
+  const sum = new Float64Array(nx * ny);
+  const cnt = new Float64Array(nx * ny);
   const col = table.outputs[output];
   for (let r = 0; r < table.rows; r++) {
     const v = col[r];
     if (!Number.isFinite(v) || !include(r)) continue;
-    const i = binOf(xe, table.inputs[x][r], ax.scale === 'log' && ax.min > 0);
-    const j = binOf(ye, table.inputs[y][r], ay.scale === 'log' && ay.min > 0);
-    sum[j * bins + i] += v;
-    cnt[j * bins + i] += 1;
+    const k = binIndex(ye, table.inputs[y][r]) * nx + binIndex(xe, table.inputs[x][r]);
+    sum[k] += v;
+    cnt[k] += 1;
   }
   const cells: MapCell[] = [];
   const mid = (e: readonly number[], i: number, log: boolean) => (log ? Math.sqrt(e[i] * e[i + 1]) : (e[i] + e[i + 1]) / 2);
-  for (let j = 0; j < bins; j++) {
-    for (let i = 0; i < bins; i++) {
-      const k = j * bins + i;
-      cells.push({
-        i,
-        j,
-        x: mid(xe, i, ax.scale === 'log'),
-        y: mid(ye, j, ay.scale === 'log'),
-        x0: xe[i],
-        x1: xe[i + 1],
-        y0: ye[j],
-        y1: ye[j + 1],
-        value: cnt[k] > 0 ? sum[k] / cnt[k] : null,
-        n: cnt[k],
-      });
+  for (let j = 0; j < ny; j++) {
+    for (let i = 0; i < nx; i++) {
+      const k = j * nx + i;
+      cells.push({ i, j, x: mid(xe, i, xLog), y: mid(ye, j, yLog), x0: xe[i], x1: xe[i + 1], y0: ye[j], y1: ye[j + 1], value: cnt[k] > 0 ? sum[k] / cnt[k] : null, n: cnt[k] });
     }
   }
-  const xLog = ax.scale === 'log' && ax.min > 0;
-  const yLog = ay.scale === 'log' && ay.min > 0;
-  const centres = (e: readonly number[], log: boolean) => Array.from({ length: bins }, (_, i) => mid(e, i, log));
-  return { process: processNameOf(spec), output, x, y, xLog, yLog, mode: 'binned', at: [], nx: bins, ny: bins, xValues: centres(xe, xLog), yValues: centres(ye, yLog), cells };
+  const centres = (e: readonly number[], log: boolean) => Array.from({ length: e.length - 1 }, (_, i) => mid(e, i, log));
+  return { process: processNameOf(spec), output, x, y, xLog, yLog, mode: 'binned', at: [], nx, ny, xValues: centres(xe, xLog), yValues: centres(ye, yLog), cells };
 }
 
 /** A subtitle saying what the map shows. */

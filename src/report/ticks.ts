@@ -75,7 +75,7 @@ export function logAxisTicks(lo: number, hi: number, widthPx: number, along: 'x'
     return out;
   };
   const decades = valuesOf([1]);
-  const sets = [valuesOf([1, 2, 5]), valuesOf([1, 3]), decades, ...[2, 3, 5, 10].map((every) => decades.filter((v) => Math.round(Math.log10(v)) % every === 0))];
+  const sets = [valuesOf([1, 2, 5]), valuesOf([1, 3]), decades, ...[2, 3, 5, 10].map((every) => decades.filter((_, i) => i % every === 0))];
   // a short range (less than a decade or so): every mantissa first
   if (sets[0].length < 3) sets.unshift(valuesOf([1, 2, 3, 4, 5, 6, 7, 8, 9]));
   for (const ticks of sets) if (ticks.length >= 2 && labelsFit(ticks.map(px), ticks.map(tickLabel), along)) return ticks;

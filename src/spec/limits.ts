@@ -37,3 +37,5 @@ export const TOLERANCE_MIN = 1e-6;
 export const TOLERANCE_MAX = 1e-2;
 /** Default relative tolerance of the isentropic column. */
 export const TOLERANCE_DEFAULT = 1e-4;
+/** Default and smallest relative tolerance of the conductive column (its grid control stops at resolution 64). */
+export { DEFAULT_CONDUCTIVE_TOLERANCE as CONDUCTIVE_TOLERANCE_DEFAULT, CONDUCTIVE_TOLERANCE_MIN } from '../physics/conductive-tolerance.js';

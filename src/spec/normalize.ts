@@ -38,7 +38,7 @@ export function normalizeSweep(spec: SweepSpec): SweepSpec {
     if (given !== undefined) fixed[input.name] = given;
     else if (input.default !== null && Number.isFinite(input.default)) fixed[input.name] = input.default;
   }
-  const model: ModelSpec = process.model.normalize(spec.model);
+  const model: ModelSpec = process.model.normalize(spec.model, new Set([...swept, ...Object.keys(fixed)]));
   return deepFreeze({ name: spec.name, axes, fixed, design: normalizeDesign(spec.design), model });
 }
 

@@ -5,7 +5,7 @@
  */
 import { DEEP_ONSET_MODES, type DeepOnset } from '../physics/types.js';
 import { PARAM_NAMES, ParamError, resolveParams, type ParamName, type ParamOverrides } from '../physics/params.js';
-import { STEP_GPA_MAX, STEP_GPA_MIN, TOLERANCE_DEFAULT, TOLERANCE_MAX, TOLERANCE_MIN } from './limits.js';
+import { CONDUCTIVE_TOLERANCE_DEFAULT, CONDUCTIVE_TOLERANCE_MIN, STEP_GPA_MAX, STEP_GPA_MIN, TOLERANCE_DEFAULT, TOLERANCE_MAX, TOLERANCE_MIN } from './limits.js';
 import { describeModelValidator, paramsSchema } from './json-schema.js';
 import { checkKeys, describeFound, isMapping, readChoice, readNumber, unknownKeyText, type ProblemList } from './problems.js';
 import type { ModelSpec } from './types.js';
@@ -22,8 +22,11 @@ export interface DecompressionModelSpec extends ModelSpec {
    */
   readonly step_gpa?: number;
   /**
-   * isentropic column: relative tolerance of the error-controlled integration (allowed 1e-6-1e-2,
-   * default 1e-4). Present exactly when step_gpa is not.
+   * relative tolerance of every output of the column that computes a row (allowed 1e-6-1e-2; the
+   * conductive column 1e-4-1e-2): the isentropic column's error-controlled steps, the conductive
+   * column's grid control. Not given: 1e-4 for isentropic columns, 1e-3 for conductive ones; the
+   * normalized form writes the default of the column the sweep runs (normalizeDecompressionModel).
+   * Absent when step_gpa is given (then conductive rows use their default).
    */
   readonly tolerance?: number;
   /**
@@ -41,7 +44,8 @@ const THERMAL_MODES: readonly DecompressionModelSpec['thermal'][] = ['isentropic
 const WATER_MODES: readonly DecompressionModelSpec['water'][] = ['batch', 'fractional'];
 
 /**
- * Validate `model`; absent means thermal auto, water batch, no overrides, tolerance 1e-4. A sweep
+ * Validate `model`; absent means thermal auto, water batch, no overrides, the column's default
+ * tolerance (filled in by normalizeDecompressionModel, which knows the inputs). A sweep
  * gives step_gpa (fixed step) or tolerance (error control), not both.
  * Carries the JSON Schema of its keys (built from the same constants) for `meltsweep schema`.
  */
@@ -63,8 +67,7 @@ export const validateModel = describeModelValidator(validateDecompressionModel, 
     type: 'number',
     minimum: TOLERANCE_MIN,
     maximum: TOLERANCE_MAX,
-    default: TOLERANCE_DEFAULT,
-    description: `relative tolerance of the error-controlled isentropic column (${TOLERANCE_MIN}-${TOLERANCE_MAX}); not together with step_gpa`,
+    description: `relative tolerance of every output of the column (${TOLERANCE_MIN}-${TOLERANCE_MAX}; conductive columns ${CONDUCTIVE_TOLERANCE_MIN}-${TOLERANCE_MAX}); default ${TOLERANCE_DEFAULT} for isentropic columns, ${CONDUCTIVE_TOLERANCE_DEFAULT} for conductive ones; not together with step_gpa`,
   },
   deep_onset: {
     enum: DEEP_ONSET_MODES,
@@ -96,7 +99,7 @@ function validateDecompressionModel(raw: unknown, problems: ProblemList): Decomp
   if (problems.count !== before || thermal === undefined || water === undefined || params === undefined || deep === undefined) {
     return undefined;
   }
-  const accuracy = step !== undefined ? { step_gpa: step } : { tolerance: tolerance ?? TOLERANCE_DEFAULT };
+  const accuracy = step !== undefined ? { step_gpa: step } : tolerance !== undefined ? { tolerance } : {};
   return deep === 'drop' ? { thermal, water, params, ...accuracy } : { thermal, water, params, ...accuracy, deep_onset: deep };
 }
 
@@ -156,15 +159,23 @@ export function validateParams(raw: unknown, problems: ProblemList): ParamOverri
  * no `process` key (the default process is not written). A sweep with step_gpa keeps the JSON and
  * hash it had before tolerances existed (and its tables); one without step_gpa now runs with error
  * control and records the tolerance, so its hash differs from a run made before, and --resume of
- * such a run refuses.
+ * such a run refuses. A tolerance not given is written as the default of the column the sweep runs:
+ * 1e-3 when it is conductive (thermal conductive, or auto with an upwelling rate among `given`, the
+ * sweep's swept and fixed inputs), else 1e-4 (the form sweeps had before the conductive control).
  */
-export function normalizeDecompressionModel(model: DecompressionModelSpec): DecompressionModelSpec {
+export function normalizeDecompressionModel(model: DecompressionModelSpec, given: ReadonlySet<string> = new Set()): DecompressionModelSpec {
   const params: Partial<Record<ParamName, number>> = {};
   for (const name of PARAM_NAMES) {
     const v = model.params[name];
     if (v !== undefined) params[name] = v;
   }
-  const accuracy = model.step_gpa !== undefined ? { step_gpa: model.step_gpa } : { tolerance: model.tolerance ?? TOLERANCE_DEFAULT };
+  const accuracy = model.step_gpa !== undefined ? { step_gpa: model.step_gpa } : { tolerance: model.tolerance ?? defaultToleranceOf(model.thermal, given) };
   const base = { thermal: model.thermal, water: model.water, params, ...accuracy };
   return model.deep_onset === undefined || model.deep_onset === 'drop' ? base : { ...base, deep_onset: model.deep_onset };
+}
+
+/** The default tolerance of the column a sweep runs: conductive (1e-3) or isentropic (1e-4). */
+export function defaultToleranceOf(thermal: DecompressionModelSpec['thermal'], given: ReadonlySet<string>): number {
+  const conductive = thermal === 'conductive' || (thermal === 'auto' && given.has('upwelling_mm_yr'));
+  return conductive ? CONDUCTIVE_TOLERANCE_DEFAULT : TOLERANCE_DEFAULT;
 }

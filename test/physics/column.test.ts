@@ -26,9 +26,14 @@ describe('meltColumn', () => {
     expect(meltColumn(dry1350, auto)).toEqual(isentropicColumn(dry1350, auto));
   });
 
-  it('defaultModel: auto, batch, published parameters, tolerance 1e-4, no profile; overrides win', () => {
+  it('defaultModel: auto, batch, published parameters, each column its default tolerance, no profile; overrides win', () => {
     const m = defaultModel();
-    expect(m).toEqual({ thermal: 'auto', water: 'batch', params: P, tolerance: 1e-4, withProfile: false });
+    expect(m).toEqual({ thermal: 'auto', water: 'batch', params: P, withProfile: false });
+    // no tolerance given: the isentropic column runs at 1e-4, the conductive one at 1e-3
+    expect(isentropicColumn(dry1350, m)).toEqual(isentropicColumn(dry1350, { ...m, tolerance: 1e-4 }));
+    const slow = { ...dry1350, upwelling_mm_yr: 5 };
+    expect(meltColumn(slow, m)).toEqual(meltColumn(slow, { ...m, tolerance: 1e-3 }));
+    expect(meltColumn(slow, m)).not.toEqual(meltColumn(slow, { ...m, tolerance: 1e-4 }));
     expect(defaultModel({ water: 'fractional', stepGpa: 0.01 })).toMatchObject({ water: 'fractional', stepGpa: 0.01, thermal: 'auto' });
   });
 
@@ -41,8 +46,15 @@ describe('meltColumn', () => {
     });
     const r = meltColumn(dry1350, defaultModel({ params: throwing as unknown as MeltParams }));
     expect(r.status).toBe('failed');
-    expect(r.reason).toContain('boom');
+    expect(r.reason).toBe('isentropic column: boom');
     for (const k of RESULT_NUMERIC_NAMES) expect(r[k]).toBeNull();
+    // the same for the conductive model, with deep_onset cap marks added to the failed row
+    const c = meltColumn({ ...dry1350, upwelling_mm_yr: 10 }, defaultModel({ params: throwing as unknown as MeltParams, deepOnset: 'cap' }));
+    expect(c.status).toBe('failed');
+    expect(c.reason).toBe('conductive column: boom');
+    expect(c.onset_capped).toBeNull();
+    // meltColumn is the one guard: the thermal models themselves let the exception through
+    expect(() => isentropicColumn(dry1350, defaultModel({ params: throwing as unknown as MeltParams }))).toThrow('boom');
   });
 
   it('turns non-finite parameters into a failed row, never a NaN in an ok row', () => {

@@ -121,7 +121,8 @@ describe('fast upwelling gives back the isentropic column', () => {
       // near the surface where water leaves a saturated melt.
       const fine = isentropic(scenario(tp, water, 0, 1000), 0.001);
       const d1 = rel(conductiveColumn(scenario(tp, water, 0, 1e4), MODEL).f_max, fine.f_max);
-      const d2 = rel(conductiveColumn(scenario(tp, water, 0, 1e6), MODEL).f_max, fine.f_max);
+      // the default tolerance is 1e-3: the 2e-4 check needs a finer one
+      const d2 = rel(conductiveColumn(scenario(tp, water, 0, 1e6), { ...MODEL, tolerance: 1e-4 }).f_max, fine.f_max);
       expect(d1).toBeLessThan(0.002);
       expect(d2).toBeLessThan(0.0002);
       expect(rel(conductiveColumn(scenario(tp, water, 0, 1e6), MODEL).crust_km, fine.crust_km)).toBeLessThan(0.0005);

@@ -31,7 +31,7 @@ describe('describePlan', () => {
       '  upwelling_mm_yr  log-uniform on 20 to 200 mm/yr',
       'constant inputs:',
       '  lid_km           60 km',
-      'model: thermal conductive, water batch, tolerance 0.0001, parameters M_cpx = 0.15',
+      'model: thermal conductive, water batch, tolerance 0.001, parameters M_cpx = 0.15',
     ]);
   });
 

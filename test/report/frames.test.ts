@@ -10,40 +10,9 @@ import { DEFAULT_PARAMS } from '../../src/physics/params.js';
 import type { Scenario } from '../../src/physics/types.js';
 import { COLUMN_DATA_MARKS, COLUMN_MARKS, MELTING_PATH_HALF_WIDTH, renderColumnDiagram } from '../../src/report/column-diagram.js';
 import { clipCurve } from '../../src/report/column-diagram-data.js';
-import { textWidthPx } from '../../src/report/font.js';
-import { pointsOutsideFrame, xmlProblem } from './helpers.js';
+import { pointsOutsideFrame, textBoxes, xmlProblem } from './helpers.js';
 
 const sc = (tp_c: number, water_ppm = 0, lid_km = 0, upwelling_mm_yr = Number.NaN): { scenario: Scenario } => ({ scenario: { tp_c, water_ppm, lid_km, upwelling_mm_yr } });
-
-/** Text items of a vega SVG with their font size, weight and x position inside the picture. */
-function texts(svg: string): { text: string; size: number; bold: boolean; right: number; width: number }[] {
-  const total = Number(/<svg[^>]*\swidth="([0-9.]+)"/.exec(svg)![1]);
-  const out: { text: string; size: number; bold: boolean; right: number; width: number }[] = [];
-  // absolute x of each text: the sum of the translations of its groups and of the text itself
-  const stack: number[] = [0];
-  for (const m of svg.matchAll(/<(\/?)(g|text)\b([^>]*)>([^<]*)/g)) {
-    const [, closing, tag, attrs, body] = m;
-    if (tag === 'g' && closing === '/') {
-      stack.pop();
-      continue;
-    }
-    if (closing === '/') continue;
-    const t = /transform="translate\((-?[0-9.e-]+),(-?[0-9.e-]+)\)"/.exec(attrs);
-    const x = stack[stack.length - 1] + (t === null ? 0 : Number(t[1]));
-    if (tag === 'g') {
-      if (!attrs.endsWith('/')) stack.push(x);
-      continue;
-    }
-    const size = Number(/font-size="([0-9.]+)px"/.exec(attrs)?.[1] ?? 11);
-    const bold = /font-weight="(bold|[6-9]00)"/.test(attrs);
-    const anchor = /text-anchor="(start|middle|end)"/.exec(attrs)?.[1] ?? 'start';
-    const text = body.replace(/&amp;/g, '&').replace(/&lt;/g, '<').replace(/&gt;/g, '>').replace(/&#39;/g, "'").replace(/&quot;/g, '"');
-    const w = textWidthPx(text, size, bold);
-    const right = anchor === 'start' ? x + w : anchor === 'middle' ? x + w / 2 : x;
-    out.push({ text, size, bold, right, width: total });
-  }
-  return out;
-}
 
 const CASES: { name: string; items: { scenario: Scenario }[]; widths?: (number | undefined)[] }[] = [
   { name: 'slow conductive column with a lid (issue 17)', items: [sc(1350, 100, 20, 5)] },
@@ -64,12 +33,12 @@ describe('column diagram frames', () => {
         expect(pointsOutsideFrame(r.svg, lines)).toEqual([]);
         if (r.data.melting.length > 0) expect(pointsOutsideFrame(r.svg, [COLUMN_MARKS.melting], MELTING_PATH_HALF_WIDTH + 0.5)).toEqual([]);
         // nothing is cut: every line of text ends inside the picture, and no text was shortened
-        for (const t of texts(r.svg)) {
+        for (const t of textBoxes(r.svg)) {
           expect(t.text.endsWith('…'), t.text).toBe(false);
-          expect(t.right, t.text).toBeLessThanOrEqual(t.width + 0.5);
+          expect(t.right, t.text).toBeLessThanOrEqual(t.pictureWidth + 0.5);
         }
         // the key names every scenario in full (its lines joined)
-        const all = texts(r.svg).map((t) => t.text).join(' ');
+        const all = textBoxes(r.svg).map((t) => t.text).join(' ');
         for (const s of r.data.scenarios) expect(all).toContain(s.label);
       }
     });

@@ -1,6 +1,7 @@
 /** Helpers of the picture tests: XML well-formedness, counting marks in vega SVG, small sweeps. */
 import path from 'node:path';
 import { XMLValidator } from 'fast-xml-parser';
+import { textWidthPx } from '../../src/report/font.js';
 import { runSweep } from '../../src/run/run-sweep.js';
 import { validateSweep } from '../../src/spec/index.js';
 
@@ -25,10 +26,83 @@ export function axisTitles(svg: string): string[] {
   return [...svg.matchAll(/aria-label="[XY]-axis titled '([^']*)'/g)].map((m) => m[1]);
 }
 
-/** Every text of an SVG in document order (entities decoded), e.g. axis labels and titles. */
+/** Every text of an SVG in document order (entities decoded; the lines of a multi-line text joined), e.g. axis labels and titles. */
 export function svgTexts(svg: string): string[] {
   const decode = (t: string): string => t.replace(/&lt;/g, '<').replace(/&gt;/g, '>').replace(/&quot;/g, '"').replace(/&#39;/g, "'").replace(/&amp;/g, '&');
-  return [...svg.matchAll(/<text[^>]*>([^<]*)<\/text>/g)].map((m) => decode(m[1]));
+  // a multi-line text (<tspan> lines) is one string, its lines joined by spaces
+  return [...svg.matchAll(/<text[^>]*>([\s\S]*?)<\/text>/g)].map((m) => decode(m[1].replace(/<\/tspan><tspan[^>]*>/g, ' ').replace(/<[^>]+>/g, '')));
+}
+
+/** One line of text of a vega SVG, placed on the page: its extent measured with the house font. */
+export interface TextBox {
+  readonly text: string;
+  readonly size: number;
+  readonly bold: boolean;
+  readonly left: number;
+  readonly right: number;
+  /** baseline, page px */
+  readonly y: number;
+  /** width of the whole picture, px */
+  readonly pictureWidth: number;
+}
+
+/**
+ * Every line of text of a vega SVG with its extent on the page: the translations of its groups and
+ * of the text summed, its anchor applied, its width measured (textWidthPx). Multi-line texts
+ * (<tspan> lines) give one box per line.
+ */
+export function textBoxes(svg: string): TextBox[] {
+  const pictureWidth = Number(/<svg[^>]*\swidth="([0-9.]+)"/.exec(svg)![1]);
+  const decode = (t: string): string => t.replace(/&lt;/g, '<').replace(/&gt;/g, '>').replace(/&quot;/g, '"').replace(/&#39;/g, "'").replace(/&amp;/g, '&');
+  const out: TextBox[] = [];
+  const stack: [number, number][] = [[0, 0]];
+  for (const m of svg.matchAll(/<(\/?)(g|text)\b([^>]*)>/g)) {
+    const [, closing, tag, attrs] = m;
+    const start = m.index + m[0].length;
+    const body = tag === 'text' && closing !== '/' ? svg.slice(start, svg.indexOf('</text>', start)) : '';
+    if (closing === '/') {
+      if (tag === 'g') stack.pop();
+      continue;
+    }
+    const t = /transform="translate\((-?[0-9.e-]+),(-?[0-9.e-]+)\)"/.exec(attrs);
+    const [x0, y0] = stack[stack.length - 1];
+    const x = x0 + (t === null ? 0 : Number(t[1]));
+    const y = y0 + (t === null ? 0 : Number(t[2]));
+    if (tag === 'g') {
+      if (!attrs.endsWith('/')) stack.push([x, y]);
+      continue;
+    }
+    const size = Number(/font-size="([0-9.]+)px"/.exec(attrs)?.[1] ?? 11);
+    const bold = /font-weight="(bold|[6-9]00)"/.test(attrs);
+    const anchor = /text-anchor="(start|middle|end)"/.exec(attrs)?.[1] ?? 'start';
+    const spans = [...body.matchAll(/<tspan\b([^>]*)>([^<]*)<\/tspan>/g)];
+    const lines = spans.length > 0 ? spans.map((s) => ({ text: decode(s[2]), dy: Number(/\sdy="(-?[0-9.e-]+)"/.exec(s[1])?.[1] ?? 0) })) : [{ text: decode(body), dy: 0 }];
+    let baseline = y;
+    for (const line of lines) {
+      baseline += line.dy;
+      const w = textWidthPx(line.text, size, bold);
+      const left = anchor === 'start' ? x : anchor === 'middle' ? x - w / 2 : x - w;
+      out.push({ text: line.text, size, bold, left, right: left + w, y: baseline, pictureWidth });
+    }
+  }
+  return out;
+}
+
+/**
+ * Pairs of text lines that touch or overlap: on the same baseline (to 1 px) and horizontally
+ * closer than `gap` px. Axis tick labels, legends and key entries must have none.
+ */
+export function touchingTexts(svg: string, gap = 2): [string, string][] {
+  const boxes = textBoxes(svg).filter((b) => b.text.trim() !== '');
+  const out: [string, string][] = [];
+  for (let a = 0; a < boxes.length; a++) {
+    for (let b = a + 1; b < boxes.length; b++) {
+      const [p, q] = [boxes[a], boxes[b]];
+      if (Math.abs(p.y - q.y) > 1 || Math.abs(p.size - q.size) > 0.01) continue;
+      if (p.left < q.right + gap && q.left < p.right + gap) out.push([p.text, q.text]);
+    }
+  }
+  return out;
 }
 
 /** A 45-point isentropic grid (Tp x water x lid) written to dir/name. */

@@ -10,10 +10,10 @@ import { registerProcess } from '../../src/process/registry.js';
 import type { ProcessDefinition } from '../../src/process/types.js';
 import { COLUMN_STATUSES } from '../../src/physics/types.js';
 import { contourLevels, contourSegments, joinSegments } from '../../src/report/map-contours.js';
-import { cellLabel, labelsFitEveryCell, logTicks, MAP_MARKS, mapContourLines, sweepMapSpec } from '../../src/report/map-figure.js';
+import { cellLabel, edgeTicks, labelsFitEveryCell, MAP_MARKS, mapContourLines, sweepMapSpec } from '../../src/report/map-figure.js';
 import { renderSvg } from '../../src/report/render.js';
 import type { ResultsColumns } from '../../src/report/results-columns.js';
-import { binnedMap, gridSliceMap, type SweepMapData } from '../../src/report/sweep-map.js';
+import { binEdges, binnedMap, gridSliceMap, type SweepMapData } from '../../src/report/sweep-map.js';
 import { validateSweep } from '../../src/spec/index.js';
 import { markGroups, markPoints, pathPoints, pointsOutsideFrame, xmlProblem } from './helpers.js';
 
@@ -89,10 +89,7 @@ describe('map layout', () => {
     expect(axisLabels(r.svg, 'Potential temperature (°C)')).toEqual(['1300', '1325', '1350', '1400']);
   });
 
-  it('starts a log axis at the data (binned samples from 5 ppm: no tick below 5)', async () => {
-    expect(logTicks(5, 3000)).toEqual([10, 100, 1000]);
-    expect(logTicks(5, 80)).toEqual([5, 10, 20, 50]);
-    expect(logTicks(20, 30)).toEqual([20, 30]);
+  it('starts a log axis at the data (binned samples from 5 ppm: no tick below 5), ticks on the bin edges', async () => {
     const spec = validateSweep({ name: 'b', axes: { tp_c: { from: 1300, to: 1400 }, water_ppm: { from: 5, to: 3000, scale: 'log' } }, design: { kind: 'latin-hypercube', samples: 64 } });
     const tp = Array.from({ length: 8 }, (_, k) => 1303 + k * 12.5);
     const water = Array.from({ length: 8 }, (_, k) => 5 * (3000 / 5) ** ((k + 0.5) / 8));
@@ -100,7 +97,39 @@ describe('map layout', () => {
     const r = await renderSvg(sweepMapSpec(map, { contours: [3] }));
     expect(r.warnings).toEqual([]);
     expect(pointsOutsideFrame(r.svg, ALL_MARKS)).toEqual([]);
-    expect(axisLabels(r.svg, 'Source water (ppm)')).toEqual(['10', '100', '1000']);
+    // about four bins over 2.8 decades: one bin per decade from 5 ppm, the last ending at 3000 ppm
+    expect(axisLabels(r.svg, 'Source water (ppm)')).toEqual(['5', '50', '500', '3000']);
+    // round bin widths on the linear axis (25 degC from 1300), each tick on an edge
+    expect(map.cells.filter((c) => c.j === 0).map((c) => c.x0)).toEqual([1300, 1325, 1350, 1375]);
+    expect(axisLabels(r.svg, 'Potential temperature (°C)')).toEqual(['1300', '1325', '1350', '1375', '1400']);
+  });
+
+  it('puts every tick of a binned map on a bin edge, round on linear axes, labels apart', () => {
+    const tp = binEdges(1400, 1600, 18, false);
+    expect(tp).toEqual(Array.from({ length: 21 }, (_, k) => 1400 + 10 * k));
+    expect(edgeTicks(tp, false, 300, 'x')).toEqual([1400, 1450, 1500, 1550, 1600]);
+    expect(edgeTicks(tp, false, 80, 'x')).toEqual([1400, 1500, 1600]);
+    expect(edgeTicks(tp, false, 50, 'x')).toEqual([1400, 1600]);
+    // water 50-500 ppm in 18 bins: 25 ppm wide, edges on its multiples
+    const water = binEdges(50, 500, 18, false);
+    expect(water[0]).toBe(50);
+    expect(water[water.length - 1]).toBe(500);
+    expect(edgeTicks(water, false, 240, 'y')).toEqual([50, 100, 150, 200, 250, 300, 350, 400, 450, 500]);
+    expect(edgeTicks(water, false, 120, 'y')).toEqual([100, 200, 300, 400, 500]);
+    // a range that is not a multiple of the width: the outer bins reach the next multiples
+    expect(binEdges(1283, 1397, 6, false)).toEqual([1280, 1300, 1320, 1340, 1360, 1380, 1400]);
+    // log: a whole number of bins per decade from the data's start; ticks are edges, decades first
+    const up = binEdges(20, 200, 10, true);
+    expect(up[0]).toBe(20);
+    expect(up[10]).toBe(200);
+    const ticks = edgeTicks(up, true, 300, 'x');
+    expect(ticks.every((v) => up.includes(v))).toBe(true);
+    expect(ticks[0]).toBe(20);
+    // 10 to 20000 ppm in about 24 bins: 7 per decade, ticks on the decades 10, 100, 1000, 10000
+    const wedge = binEdges(10, 20000, 24, true);
+    expect(wedge[0]).toBe(10);
+    expect(wedge[wedge.length - 1]).toBe(20000);
+    expect(edgeTicks(wedge, true, 300, 'x')).toEqual([10, 100, 1000, 10000]);
   });
 
   it('writes values in every cell or in none', async () => {

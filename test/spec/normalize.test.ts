@@ -96,4 +96,24 @@ describe('sweepHash', () => {
     expect(() => validateSweep({ axes: { tp_c: { values: [1300] } }, model: { tolerance: 0.5 } })).toThrow(/model\.tolerance: 0\.5 is above the allowed range 0\.000001-0\.01/);
     expect(validateSweep({ axes: { tp_c: { values: [1300] } }, model: { tolerance: 1e-3 } }).model).toEqual({ thermal: 'auto', water: 'batch', params: {}, tolerance: 1e-3 });
   });
+
+  it('a tolerance not given is the default of the column the sweep runs: 1e-3 conductive, 1e-4 isentropic', () => {
+    const model = (m: Record<string, unknown>, extra: Record<string, unknown> = {}): unknown => validateSweep({ axes: { tp_c: { values: [1300] } }, ...extra, model: m }).model;
+    expect(model({})).toEqual({ thermal: 'auto', water: 'batch', params: {}, tolerance: 1e-4 });
+    // auto with an upwelling rate (fixed or swept) runs the conductive column
+    expect(model({}, { fixed: { upwelling_mm_yr: 10 } })).toEqual({ thermal: 'auto', water: 'batch', params: {}, tolerance: 1e-3 });
+    expect(validateSweep({ axes: { tp_c: { values: [1300] }, upwelling_mm_yr: { values: [3, 30] } } }).model).toMatchObject({ tolerance: 1e-3 });
+    expect(model({ thermal: 'conductive' }, { fixed: { upwelling_mm_yr: 10 } })).toMatchObject({ tolerance: 1e-3 });
+    expect(model({ thermal: 'isentropic' }, { fixed: { upwelling_mm_yr: 10 } })).toMatchObject({ tolerance: 1e-4 });
+    // a given tolerance is kept for either column
+    expect(model({ tolerance: 2e-4 }, { fixed: { upwelling_mm_yr: 10 } })).toMatchObject({ tolerance: 2e-4 });
+  });
+
+  it('a conductive sweep refuses a tolerance below the conductive range, naming field, value and range', () => {
+    expect(() => validateSweep({ axes: { tp_c: { values: [1300] } }, fixed: { upwelling_mm_yr: 10 }, model: { tolerance: 1e-5 } })).toThrow(
+      /model\.tolerance: 0\.00001 is below the conductive column's allowed range 0\.0001-0\.01 \(relative\)/,
+    );
+    // the same value is fine for an isentropic sweep
+    expect(validateSweep({ axes: { tp_c: { values: [1300] } }, model: { tolerance: 1e-5 } }).model).toMatchObject({ tolerance: 1e-5 });
+  });
 });

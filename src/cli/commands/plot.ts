@@ -17,7 +17,6 @@ import type { AnyProcess, DiagramItem } from '../../process/types.js';
 import type { ModelSpec } from '../../spec/types.js';
 import { allInputFlags, columnInputs } from './column.js';
 import type { DecompressionModelSpec } from '../../spec/validate-model.js';
-import { TOLERANCE_DEFAULT } from '../../spec/limits.js';
 import { MODEL_FLAG_HELP, modelFromFlags, optionKey } from '../model-flags.js';
 import { MAX_DIAGRAM_SCENARIOS } from '../../report/theme.js';
 import { addFigureSizeOptions, checkOutputFile, figureOutput } from '../figure-output.js';
@@ -102,7 +101,7 @@ export function plotColumnInputs(o: PlotColumnOptions): { scenarios: Scenario[];
   if (problems.length > 0) throw new InputError(problems);
   const scenarios: Scenario[] = [];
   for (const tp_c of tps) for (const water_ppm of waters) for (const lid_km of lids) for (const upwelling_mm_yr of ups) scenarios.push({ tp_c, water_ppm, lid_km, upwelling_mm_yr });
-  return { scenarios, model: defaultModel({ thermal, water: mode, ...(spec?.step_gpa !== undefined ? { stepGpa: spec.step_gpa } : { tolerance: spec?.tolerance ?? TOLERANCE_DEFAULT }), deepOnset: spec?.deep_onset ?? 'drop' }) };
+  return { scenarios, model: defaultModel({ thermal, water: mode, ...(spec?.step_gpa !== undefined ? { stepGpa: spec.step_gpa } : spec?.tolerance !== undefined ? { tolerance: spec.tolerance } : {}), deepOnset: spec?.deep_onset ?? 'drop' }) };
 }
 
 /**
