@@ -234,7 +234,10 @@ for (let t = 0; t < 3; t++) {
   const first = start(run(out));
   const exited = once(first, 'exit');
   await waitFor(() => fs.existsSync(`${out}.tmp-${first.pid}`) && segments(out).length >= 1);
-  const second = [cli(run(out, '--resume')).status, cli(run(out, '--force')).status, cli(run(out)).status];
+  // the first run is paused (alive, holding its lock) while the others try, so they really overlap
+  first.kill('SIGSTOP');
+  const second = [cli(run(out, '--resume')).status, cli(run(out, '--force')).status, cli(run(out)).status, cli(['merge', refFile, '-o', out, '--force']).status];
+  first.kill('SIGCONT');
   const [code] = await exited;
   await record('two concurrent writers on one output', `second writers exit ${second.join(', ')}; first exit ${code}`, out, code === 0);
   if (second.includes(0)) console.log('  <-- A SECOND WRITER WAS ACCEPTED');
