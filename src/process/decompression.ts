@@ -55,6 +55,7 @@ export const decompression: ProcessDefinition<ModelOptions> = {
   results: DECOMPRESSION_RESULTS,
   optionalResults: CAPPED_ONSET_FIELDS,
   resultsFor: (m) => ((m as DecompressionModelSpec).deep_onset === 'cap' ? CAPPED_RESULTS : DECOMPRESSION_RESULTS),
+  reportOutputs: ['crust_km', 'f_max', 'onset_depth_km', 'h2o_melt_wt_pct', 'melt_flux_kg_m2_yr'],
   statuses: COLUMN_STATUSES,
   model: {
     keys: MODEL_KEYS,

@@ -104,6 +104,7 @@ export const flux: ProcessDefinition<FluxRuntimeModel> = {
     'melting of a vertical column through the mantle wedge above a slab at a prescribed geotherm (plate + adiabat, or a table), by the bulk water of the wedge',
   inputsFor: (m) => ((m as Partial<FluxModelSpec>).geotherm ?? 'lid-adiabat') === 'lid-adiabat' ? FLUX_INPUTS : FLUX_TABLE_INPUTS,
   results: FLUX_RESULTS,
+  reportOutputs: ['melt_column_km', 'f_max', 'water_threshold_ppm', 'onset_depth_km', 'h2o_melt_wt_pct'],
   statuses: ['ok', 'no_melt', 'onset_beyond_range', 'failed'],
   model: {
     keys: FLUX_MODEL_KEYS,

@@ -140,6 +140,11 @@ export interface ProcessDefinition<M = unknown> {
   readonly optionalResults?: readonly ResultDef[];
   /** Optional: the result fields under a model section (absent: always `results`); see resultsOf */
   resultsFor?(model: ModelSpec): readonly ResultDef[];
+  /**
+   * Optional: the outputs a report draws by default, most telling first (those that hold no
+   * values in a file are left out there). Absent: every result field.
+   */
+  readonly reportOutputs?: readonly string[];
   /** the statuses it can produce (a subset of COLUMN_STATUSES) */
   readonly statuses: readonly ColumnStatus[];
   readonly model: ProcessModelOptions;

@@ -3,7 +3,8 @@
  * InputError naming the option, the value and what is allowed.
  */
 import { InputError } from '../errors.js';
-import { inputsOfSpec, resultsOfSpec } from '../process/registry.js';
+import { decompression } from '../process/decompression.js';
+import { inputsOfSpec, processOfSpec, resultsOfSpec } from '../process/registry.js';
 import { didYouMean } from '../spec/suggest.js';
 import type { SweepSpec } from '../spec/types.js';
 import type { CappedChoice } from '../io/capped-rows.js';
@@ -11,7 +12,7 @@ import { fieldInfo, formatNumber } from './labels.js';
 
 /** What the report shows. Every field is optional; see resolveReportOptions for the defaults. */
 export interface ReportOptions {
-  /** outputs to draw (default: DEFAULT_REPORT_OUTPUTS that hold values) */
+  /** outputs to draw (default: the process's reportOutputs that hold values) */
   readonly outputs?: readonly string[];
   /** swept input on the maps' horizontal axis (default: the first swept input) */
   readonly x?: string;
@@ -31,8 +32,8 @@ export interface ReportOptions {
   readonly capped?: CappedChoice;
 }
 
-/** Outputs a report shows by default, where they hold values. */
-export const DEFAULT_REPORT_OUTPUTS: readonly string[] = ['crust_km', 'f_max', 'onset_depth_km', 'h2o_melt_wt_pct', 'melt_flux_kg_m2_yr'];
+/** Outputs a report of a decompression table shows by default, where they hold values (see ProcessDefinition.reportOutputs). */
+export const DEFAULT_REPORT_OUTPUTS: readonly string[] = decompression.reportOutputs ?? [];
 
 /** Options with defaults filled in and checked. */
 export interface ResolvedReportOptions {
@@ -123,9 +124,9 @@ export function resolveReportOptions(o: ReportOptions, spec: SweepSpec, outputsW
   const notes: string[] = [];
   const problems: string[] = [];
   const RESULT_NUMERIC_NAMES = resultsOfSpec(spec).map((r) => r.name);
-  // the default outputs of the process: the usual ones it has, else all of its outputs
-  const usual = DEFAULT_REPORT_OUTPUTS.filter((n) => RESULT_NUMERIC_NAMES.includes(n));
-  const defaults = usual.length > 0 ? usual : RESULT_NUMERIC_NAMES;
+  // the default outputs: the process's own choice among the fields this table has, else all of them
+  const chosen = (processOfSpec(spec).reportOutputs ?? []).filter((n) => RESULT_NUMERIC_NAMES.includes(n));
+  const defaults = chosen.length > 0 ? chosen : RESULT_NUMERIC_NAMES;
   let outputs: string[];
   if (o.outputs !== undefined) {
     outputs = [];

@@ -154,12 +154,14 @@ describe('the arc example (sweeps/arc-a2-flux.yaml)', () => {
     expect(s.status, s.stderr).toBe(0);
     expect(s.stdout).toMatch(/melt_column_km\s+water_ppm/);
     const html = path.join(dir, 'arc.html');
-    const rep = runCliSync(['report', out, '-o', html, '--outputs', 'melt_column_km,water_threshold_ppm']);
+    // no --outputs: the report draws the flux process's own outputs (reportOutputs), not decompression's
+    const rep = runCliSync(['report', out, '-o', html]);
     expect(rep.status, rep.stderr).toBe(0);
     const page = fs.readFileSync(html, 'utf8');
     expect(page).toContain('data-plot="map"');
     expect(page).toContain('data-output="water_threshold_ppm"');
     expect(page).toContain('data-output="melt_column_km"');
+    expect(page).not.toContain('data-output="crust_km"');
     // the representative columns are drawn by the process's own diagram
     expect(page).toContain('data-plot="column"');
     expect(page).toContain('Representative columns by melt column: smallest, median, largest');

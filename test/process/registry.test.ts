@@ -52,6 +52,13 @@ describe('process registry: every process is consistent', () => {
           if (i.minExclusive) expect(i.default, i.name).toBeGreaterThan(i.min);
         }
       });
+      it('the default outputs of a report are result fields of the process, each once', () => {
+        const names = [...p.results, ...(p.optionalResults ?? [])].map((r) => r.name);
+        const chosen = p.reportOutputs ?? [];
+        for (const n of chosen) expect(names, n).toContain(n);
+        expect(new Set(chosen).size).toBe(chosen.length);
+      });
+
       it('statuses are a subset of the common status dictionary', () => {
         for (const s of p.statuses) expect(COLUMN_STATUSES).toContain(s);
       });
