@@ -19,16 +19,7 @@ const CLI = path.join(ROOT, 'dist', 'src', 'cli', 'main.js');
 const trials = Number(process.argv[2] ?? 10);
 const signal = process.argv[3] ?? 'SIGINT';
 const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'meltsweep-stop-'));
-const sweep = path.join(dir, 'huge.yaml');
-fs.writeFileSync(sweep, `name: huge sweep H-1
-axes:
-  tp_c: { from: 1250, to: 1550, count: 1000 }
-  water_ppm: { from: 0, to: 800, count: 1000 }
-  lid_km: { from: 0, to: 100, count: 1000 }
-  upwelling_mm_yr: { from: 10, to: 100, count: 1000 }
-design: { kind: grid }
-model: { thermal: isentropic, water: batch }
-`);
+const sweep = path.join(ROOT, 'test', 'fixtures', 'huge-sweep.yaml');
 
 function peakRssMb(pid) {
   const m = /VmHWM:\s+(\d+) kB/.exec(fs.readFileSync(`/proc/${pid}/status`, 'utf8'));

@@ -19,6 +19,20 @@ export class RunError extends Error {
   override readonly name: string = 'RunError';
 }
 
+/**
+ * Run fn; when it throws an InputError, add its problems to `problems` and return `fallback`
+ * instead, so a command can name every bad option at once. Other errors pass through.
+ */
+export function collectInputErrors<T>(problems: string[], fn: () => T, fallback: T): T {
+  try {
+    return fn();
+  } catch (err) {
+    if (!(err instanceof InputError)) throw err;
+    problems.push(...err.problems);
+    return fallback;
+  }
+}
+
 export const EXIT_OK = 0;
 export const EXIT_RUN_FAILED = 1;
 export const EXIT_BAD_INPUT = 2;

@@ -5,6 +5,7 @@ import os from 'node:os';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 import * as arrow from 'apache-arrow';
+import { afterAll } from 'vitest';
 import { InputError } from '../src/errors.js';
 
 export const ROOT = fileURLToPath(new URL('..', import.meta.url));
@@ -49,13 +50,24 @@ export function writeSweep(dir: string, name: string, yaml: string): string {
   return file;
 }
 
-/** The problems of the InputError that `fn` throws ([] when it does not throw; other errors rethrown). */
-export function problemsOf(fn: () => unknown): readonly string[] {
+/**
+ * The problems of the InputError that `fn` throws; other errors are rethrown. When it does not
+ * throw: [] (or, with mustThrow, a failure of the test).
+ */
+export function problemsOf(fn: () => unknown, mustThrow = false): readonly string[] {
   try {
     fn();
   } catch (err) {
     if (err instanceof InputError) return err.problems;
     throw err;
   }
+  if (mustThrow) throw new Error('expected an InputError, but the call succeeded');
   return [];
+}
+
+/** A fresh temporary folder, removed with everything in it after the test file's tests. */
+export function scratchDir(prefix: string): string {
+  const dir = tmpDir(prefix);
+  afterAll(() => fs.rmSync(dir, { recursive: true, force: true }));
+  return dir;
 }

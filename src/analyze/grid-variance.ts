@@ -36,6 +36,16 @@ export function gridGeometry(axes: readonly { readonly values: readonly number[]
   return { n, sizes, strides, values: axes.map((a) => Float64Array.from(a.values)) };
 }
 
+/**
+ * How the rows run along one axis: row = o x block + t x stride + j for o < outer (the axes before
+ * it), t < size (its values) and j < stride (the axes after it).
+ */
+export function axisLayout(geom: GridGeometry, axis: number): { size: number; stride: number; block: number; outer: number } {
+  const size = geom.sizes[axis];
+  const stride = geom.strides[axis];
+  return { size, stride, block: size * stride, outer: geom.n / (size * stride) };
+}
+
 export interface GridAxisVariance {
   /** mean of the usable rows on each slab x_i = values[t] (NaN when empty), in axis value order */
   readonly slabMean: Float64Array;
@@ -82,10 +92,7 @@ export function gridAxisVariance(
   scratch: GridScratch,
   constant: boolean,
 ): GridAxisVariance {
-  const size = geom.sizes[axis];
-  const stride = geom.strides[axis];
-  const block = size * stride;
-  const outer = geom.n / block;
+  const { size, stride, block, outer } = axisLayout(geom, axis);
   const slabSum = new Float64Array(size);
   const slabCount = new Float64Array(size);
   const { lineMean, lineCount } = scratch;

@@ -15,7 +15,7 @@
  */
 import { percentilesInPlace } from './stats.js';
 import type { EdgeRule } from './types.js';
-import type { GridGeometry } from './grid-variance.js';
+import { axisLayout, type GridGeometry } from './grid-variance.js';
 
 /**
  * Derivative where the central stencil is not available: two points above, else two below
@@ -49,7 +49,7 @@ function edgeDerivative(
   return NaN;
 }
 
-export const LOCAL_PERCENTILES = [0.1, 0.5, 0.9] as const;
+const LOCAL_PERCENTILES = [0.1, 0.5, 0.9] as const;
 
 export interface LocalDerivativeStats {
   /** 10th, 50th, 90th percentile of dy/dx over points with a derivative (NaN when none) */
@@ -84,11 +84,8 @@ export function gridLocalDerivatives(
   slopeBuf: Float64Array,
   elasticityBuf: Float64Array,
 ): LocalDerivativeStats {
-  const size = geom.sizes[axis];
-  const stride = geom.strides[axis];
+  const { size, stride, block, outer } = axisLayout(geom, axis);
   const values = geom.values[axis];
-  const block = size * stride;
-  const outer = geom.n / block;
   // positions along the axis in ascending value order, and per rank q: the row offsets (within a
   // block) of the point and its neighbours in value order (-1 = none) and the stencil weights
   const order = Array.from({ length: size }, (_, t) => t).sort((a, b) => values[a] - values[b]);

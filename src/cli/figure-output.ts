@@ -5,7 +5,7 @@
 import fs from 'node:fs';
 import path from 'node:path';
 import type { Command } from 'commander';
-import { InputError } from '../errors.js';
+import { collectInputErrors, InputError } from '../errors.js';
 import { DEFAULT_DPI, formatOfPath, parseDpiOption, parseWidthOption, type ExportSize, type FigureFormat } from '../report/export-options.js';
 
 /** Raw values of the shared picture options. */
@@ -53,15 +53,7 @@ export function figureOutput(o: FigureCliOptions): { format: FigureFormat; size:
 
 /** --width and --dpi of a picture; each bad value is added to `problems` (the caller throws). */
 export function figureSize(o: { readonly width?: string; readonly dpi?: string }, problems: string[]): ExportSize {
-  const attempt = <T>(fn: () => T): T | undefined => {
-    try {
-      return fn();
-    } catch (err) {
-      if (!(err instanceof InputError)) throw err;
-      problems.push(...err.problems);
-      return undefined;
-    }
-  };
+  const attempt = <T>(fn: () => T): T | undefined => collectInputErrors<T | undefined>(problems, fn, undefined);
   const width = o.width === undefined ? undefined : attempt(() => parseWidthOption(o.width as string));
   const dpi = o.dpi === undefined ? undefined : attempt(() => parseDpiOption(o.dpi as string));
   return { width, dpi };

@@ -11,7 +11,7 @@ import { cleanUpNow } from '../io/exit-cleanup.js';
 const SIGNALS = ['SIGINT', 'SIGTERM', 'SIGHUP'] as const;
 
 /** Exit code of a command stopped by `signal`: 128 + the signal number (130 for Ctrl-C), the shell convention. */
-export function interruptedExitCode(signal: NodeJS.Signals): number {
+function interruptedExitCode(signal: NodeJS.Signals): number {
   return 128 + (os.constants.signals[signal] ?? os.constants.signals.SIGINT);
 }
 

@@ -12,7 +12,7 @@ import { ProblemList } from '../spec/problems.js';
 import type { ModelSpec } from '../spec/types.js';
 
 /** Flags that set model keys of decompression (the names they always had). */
-export const MODEL_FLAGS = [
+const MODEL_FLAGS = [
   { flag: 'mode', key: 'water' },
   { flag: 'thermal', key: 'thermal' },
   { flag: 'step', key: 'step_gpa', numeric: true },
@@ -30,7 +30,7 @@ interface ModelFlag {
 }
 
 /** Every model option, once (the first declaration of a flag wins). */
-export function modelFlags(): ModelFlag[] {
+function modelFlags(): ModelFlag[] {
   const out: ModelFlag[] = [...MODEL_FLAGS];
   for (const p of allProcesses()) {
     for (const f of p.model.cliFlags ?? []) if (!out.some((x) => x.flag === f.flag)) out.push({ flag: f.flag, key: f.key, file: f.kind === 'file' });

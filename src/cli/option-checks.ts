@@ -11,7 +11,7 @@
 import type { Command, Option } from 'commander';
 
 /** The line printed after a parse error of `meltsweep NAME`. */
-export function helpPointer(command: Command): string {
+function helpPointer(command: Command): string {
   const names: string[] = [];
   for (let c: Command | null = command; c !== null && c.parent !== null; c = c.parent) names.unshift(c.name());
   return `(run meltsweep ${names.join(' ')} --help for its options)`;

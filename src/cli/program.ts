@@ -8,7 +8,7 @@ import { TOOL_VERSION } from '../version.js';
 import { registerCommands } from './commands/index.js';
 import { checkOptionsInOrder } from './option-checks.js';
 
-export function buildProgram(): Command {
+function buildProgram(): Command {
   const program = new Command('meltsweep')
     .description('Scenario sweeps of mantle decompression melting: plan, run on all cores, write Arrow tables, rank inputs by influence.')
     .version(TOOL_VERSION)

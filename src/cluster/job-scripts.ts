@@ -61,7 +61,7 @@ export function shellQuote(text: string): string {
 }
 
 /** A Slurm job name from the sweep name: letters, digits, . _ - only, at most 40 characters. */
-export function jobName(sweepName: string, suffix: string): string {
+function jobName(sweepName: string, suffix: string): string {
   const base = sweepName.replace(/[^A-Za-z0-9._-]+/g, '-').replace(/^-+|-+$/g, '').slice(0, 40);
   return `meltsweep-${base === '' ? 'sweep' : base}${suffix}`;
 }

@@ -52,7 +52,7 @@ const RESERVED_OPTIONS: ReadonlyArray<readonly [RegExp, string]> = [
 ];
 
 /** Check `--sbatch-option` values: one option each, written as on the sbatch command line. */
-export function checkSbatchOptions(options: readonly string[]): string[] {
+function checkSbatchOptions(options: readonly string[]): string[] {
   return options.map((raw) => {
     const o = raw.trim();
     if (!o.startsWith('-')) throw new InputError(`--sbatch-option: ${JSON.stringify(raw)} is not an sbatch option; write it as on the command line, e.g. --sbatch-option "--partition=short"`);
@@ -65,7 +65,7 @@ export function checkSbatchOptions(options: readonly string[]): string[] {
 }
 
 /** The CLI entry point of this installation (what the job scripts run). */
-export function cliEntryPoint(): string {
+function cliEntryPoint(): string {
   const file = path.join(packageRoot(), 'dist', 'src', 'cli', 'main.js');
   if (!fs.existsSync(file)) throw new RunError(`the meltsweep CLI ${file} is missing: run "npm run build" first`);
   return file;

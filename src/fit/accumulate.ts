@@ -105,7 +105,6 @@ export class FitAccumulator {
    */
   add(batch: FitBatch): number {
     const n = batch.rows;
-    const K = this.obsNames.length;
     const outs = this.obsNames.map((name) => columnOf(batch.outputs, name, n, 'output'));
     const ins = this.sums.names.map((name) => columnOf(batch.inputs, name, n, 'input'));
     const kept = this.stored.map((name) => columnOf(batch.outputs, name, n, 'output'));

@@ -46,15 +46,23 @@ export function equalCells(lo: number, hi: number, count: number, log: boolean):
   const edgesT = new Float64Array(count + 1);
   for (let i = 0; i <= count; i++) edgesT[i] = t0 + i * width;
   edgesT[count] = t1;
-  const inv = width > 0 ? 1 / width : 0;
-  const last = count - 1;
+  return uniformCells(log, edgesT, t0, width > 0 ? 1 / width : 0, 0);
+}
+
+/**
+ * Cells found by one multiplication: cell = floor((t - t0) x inv + shift), clamped to the cells
+ * (shift 0: equal cells starting at t0; shift 0.5: the nearest of evenly spaced grid values, as
+ * Math.round does).
+ */
+function uniformCells(log: boolean, edgesT: Float64Array, t0: number, inv: number, shift: number): Cells {
+  const last = edgesT.length - 2;
   return {
     log,
-    count,
+    count: last + 1,
     edgesT,
     index(x: number): number {
       if (x !== x) return -1;
-      const i = Math.floor(((log ? Math.log(x) : x) - t0) * inv);
+      const i = Math.floor(((log ? Math.log(x) : x) - t0) * inv + shift);
       return i < 0 ? 0 : i > last ? last : i;
     },
     indexAll(x: Float64Array, n: number, out: Int32Array): void {
@@ -64,7 +72,7 @@ export function equalCells(lo: number, hi: number, count: number, log: boolean):
           out[r] = -1;
           continue;
         }
-        const i = Math.floor(((log ? Math.log(v) : v) - t0) * inv);
+        const i = Math.floor(((log ? Math.log(v) : v) - t0) * inv + shift);
         out[r] = i < 0 ? 0 : i > last ? last : i;
       }
     },
@@ -84,31 +92,7 @@ export function gridCells(values: readonly number[], log: boolean): Cells {
   // evenly spaced in t (the usual from/to/count or step axis): the cell is one rounding away
   const step = m > 1 ? (t[last] - t[0]) / last : 0;
   const even = m > 1 && t.every((ti, i) => Math.abs(ti - (t[0] + i * step)) <= 1e-9 * Math.max(1, Math.abs(ti)));
-  if (even) {
-    const t0 = t[0];
-    const inv = 1 / step;
-    return {
-      log,
-      count: m,
-      edgesT,
-      index(x: number): number {
-        if (x !== x) return -1;
-        const i = Math.round(((log ? Math.log(x) : x) - t0) * inv);
-        return i < 0 ? 0 : i > last ? last : i;
-      },
-      indexAll(x: Float64Array, n: number, out: Int32Array): void {
-        for (let r = 0; r < n; r++) {
-          const v = x[r];
-          if (v !== v) {
-            out[r] = -1;
-            continue;
-          }
-          const i = Math.round(((log ? Math.log(v) : v) - t0) * inv);
-          out[r] = i < 0 ? 0 : i > last ? last : i;
-        }
-      },
-    };
-  }
+  if (even) return uniformCells(log, edgesT, t[0], 1 / step, 0.5);
   return {
     log,
     count: m,

@@ -15,7 +15,7 @@ import { fitWarnings } from './warnings.js';
 export const SUMMARY_LEVELS = { p2_5: 0.025, p16: 0.16, p50: 0.5, p84: 0.84, p97_5: 0.975 } as const;
 
 /** Display cells of each input's prior-vs-posterior picture. */
-export const MARGINAL_CELLS = 64;
+const MARGINAL_CELLS = 64;
 
 /** Mean, sd and the quantiles of a mass function on cells with its moments. */
 export function summaryOf(mass: ArrayLike<number>, total: number, edgesT: ArrayLike<number>, log: boolean, mean: number, variance: number): FitSummary {

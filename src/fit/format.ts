@@ -1,15 +1,12 @@
 /**
  * A fit as text (the CLI's summary) and as the `--json` object.
  */
+import { formatSignificant } from '../number-format.js';
 import type { FitResult, FitSummary } from './types.js';
 
 /** A number with 4 significant digits (exponent form for very large or small magnitudes). */
 export function formatFitNumber(v: number): string {
-  if (!Number.isFinite(v)) return String(v);
-  if (v === 0) return '0';
-  const a = Math.abs(v);
-  if (a >= 1e6 || a < 1e-3) return v.toExponential(3);
-  return String(Number(v.toPrecision(4)));
+  return formatSignificant(v, { expAbove: 1e6, expDigits: 3 });
 }
 
 const COLUMNS: readonly (keyof FitSummary)[] = ['mean', 'sd', 'p2_5', 'p16', 'p50', 'p84', 'p97_5'];

@@ -103,7 +103,7 @@ export interface ResultsTableMeta extends TableFields {
 }
 
 /** Parameter values with their units, as written to metadata. */
-export function paramsWithUnits(params: MeltParams): Record<string, { value: number; unit: string }> {
+function paramsWithUnits(params: MeltParams): Record<string, { value: number; unit: string }> {
   return Object.fromEntries(PARAM_NAMES.map((n) => [n, { value: params[n], unit: PARAM_INFO[n].unit }]));
 }
 

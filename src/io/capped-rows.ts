@@ -9,7 +9,7 @@ import { InputError } from '../errors.js';
 /** The flag column of capped rows (1 = capped). */
 export const CAPPED_FLAG = 'onset_capped';
 
-export const CAPPED_CHOICES = ['include', 'exclude'] as const;
+const CAPPED_CHOICES = ['include', 'exclude'] as const;
 export type CappedChoice = (typeof CAPPED_CHOICES)[number];
 
 /** Parse `--capped`. @throws InputError naming the allowed values */

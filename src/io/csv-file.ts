@@ -47,12 +47,12 @@ export interface CsvSidecar {
 const NEEDS_QUOTES = /[",\r\n]/;
 
 /** A text field per RFC 4180: quoted, quotes doubled. */
-export function quoteCsv(text: string): string {
+function quoteCsv(text: string): string {
   return `"${text.replace(/"/g, '""')}"`;
 }
 
 /** A number in its shortest round-trip form (-0 kept; infinities as inf / -inf). */
-export function formatCsvNumber(v: number): string {
+function formatCsvNumber(v: number): string {
   if (v === 0) return Object.is(v, -0) ? '-0' : '0';
   if (v === Infinity) return 'inf';
   if (v === -Infinity) return '-inf';
@@ -110,7 +110,7 @@ export function batchToCsv(batch: arrow.RecordBatch): string {
 }
 
 /** The sidecar describing a CSV table with this schema and row count. */
-export function csvSidecar(csvPath: string, schema: arrow.Schema, rows: number, dataCrc32?: string): CsvSidecar {
+function csvSidecar(csvPath: string, schema: arrow.Schema, rows: number, dataCrc32?: string): CsvSidecar {
   return {
     meltsweep_csv: 1,
     file: path.basename(csvPath),

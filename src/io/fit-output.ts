@@ -36,7 +36,7 @@ function field(name: string, type: arrow.DataType, nullable: boolean, unit: stri
 }
 
 /** The fit table's schema, with the observations and the fit's counts in its metadata. */
-export function fitTableSchema(r: FitFileResult): arrow.Schema {
+function fitTableSchema(r: FitFileResult): arrow.Schema {
   const f = r.fit;
   const units = f.observations.map((o) => r.units[o.output] ?? '');
   const md = new Map<string, string>([

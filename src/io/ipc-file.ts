@@ -65,10 +65,7 @@ export class IpcFileSink {
   }
 
   private check(): void {
-    if (this.writeError !== null) {
-      const e = this.writeError;
-      throw new Error(`cannot write ${this.tmpPath}: ${e instanceof Error ? e.message : String(e)}`);
-    }
+    throwWriteError(this.writeError, this.tmpPath);
   }
 
   async write(batch: arrow.RecordBatch): Promise<void> {
@@ -92,13 +89,10 @@ export class IpcFileSink {
   async abort(): Promise<void> {
     if (this.closed) return;
     this.closed = true;
-    try {
+    await abandonTemporaryFile(this.fd, this.tmpPath, async () => {
       this.writer.close();
       await this.pump;
-    } catch {
-      // already failing
-    }
-    discardTemporaryFile(this.fd, this.tmpPath);
+    });
   }
 }
 
@@ -123,6 +117,21 @@ export function publishTemporaryFile(fd: number, tmpPath: string, finalPath: str
   fs.renameSync(tmpPath, finalPath);
   untrackTemporary(tmpPath);
   fsyncDir(path.dirname(finalPath));
+}
+
+/** Rethrow what a sink's writer failed with (null: nothing failed), naming the file. */
+export function throwWriteError(error: unknown, tmpPath: string): void {
+  if (error !== null) throw new Error(`cannot write ${tmpPath}: ${error instanceof Error ? error.message : String(error)}`);
+}
+
+/** Stop a sink's writer (it may be failing already: its error is of no use here) and remove its temporary file. */
+export async function abandonTemporaryFile(fd: number, tmpPath: string, stopWriter: () => Promise<void>): Promise<void> {
+  try {
+    await stopWriter();
+  } catch {
+    // already failing
+  }
+  discardTemporaryFile(fd, tmpPath);
 }
 
 /** Close (if still open) and remove an abandoned temporary file. */

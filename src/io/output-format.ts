@@ -11,7 +11,7 @@ export const OUTPUT_FORMATS = ['arrow', 'parquet', 'csv'] as const;
 export type OutputFormat = (typeof OUTPUT_FORMATS)[number];
 
 /** File extensions that name a format when --format is not given (lower case, with the dot). */
-export const FORMAT_EXTENSIONS: Readonly<Record<string, OutputFormat>> = Object.freeze({
+const FORMAT_EXTENSIONS: Readonly<Record<string, OutputFormat>> = Object.freeze({
   '.arrow': 'arrow',
   '.feather': 'arrow',
   '.ipc': 'arrow',
@@ -69,7 +69,7 @@ export function outputExtensionWarning(outPath: string, format?: OutputFormat | 
  * A companion table's path: the output's extension kept, `.<suffix>` put before it
  * (`r7.arrow` -> `r7.profiles.arrow`, `r7` -> `r7.profiles`).
  */
-export function companionPath(outPath: string, suffix: string): string {
+function companionPath(outPath: string, suffix: string): string {
   const ext = path.extname(outPath);
   return ext === '' ? `${outPath}.${suffix}` : `${outPath.slice(0, -ext.length)}.${suffix}${ext}`;
 }

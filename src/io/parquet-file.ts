@@ -18,7 +18,7 @@ import fs from 'node:fs';
 import type * as PQ from 'parquet-wasm';
 import { crc32, crcHex, rangeCrc32 } from './checksum.js';
 import { DATA_CRC_KEY } from './checksummed-writer.js';
-import { discardTemporaryFile, openTemporaryFile, publishTemporaryFile, writeAllSync } from './ipc-file.js';
+import { abandonTemporaryFile, openTemporaryFile, publishTemporaryFile, throwWriteError, writeAllSync } from './ipc-file.js';
 
 type ParquetWasm = typeof PQ;
 
@@ -26,7 +26,7 @@ type ParquetWasm = typeof PQ;
  * The library, loaded on first use: compiling its WebAssembly takes about 0.2 s, which commands
  * that never touch Parquet should not pay (node caches the module after the first import).
  */
-export function loadParquetWasm(): Promise<ParquetWasm> {
+function loadParquetWasm(): Promise<ParquetWasm> {
   return import('parquet-wasm');
 }
 
@@ -41,7 +41,7 @@ export interface ParquetWriteOptions {
 }
 
 /** Rows per Parquet row group unless told otherwise (bounds the writer's memory). */
-export const DEFAULT_ROW_GROUP_ROWS = 131_072;
+const DEFAULT_ROW_GROUP_ROWS = 131_072;
 
 /**
  * The value of meltsweep.data_crc32 while the file is written. The writer fixes its key-value
@@ -175,10 +175,7 @@ export class ParquetFileSink {
   }
 
   private check(): void {
-    if (this.writeError !== null) {
-      const e = this.writeError;
-      throw new Error(`cannot write ${this.tmpPath}: ${e instanceof Error ? e.message : String(e)}`);
-    }
+    throwWriteError(this.writeError, this.tmpPath);
   }
 
   /** Start the writer on the first batch (it reads the schema from it) and the byte pump to disk. */
@@ -232,13 +229,10 @@ export class ParquetFileSink {
   async abort(): Promise<void> {
     if (this.closed) return;
     this.closed = true;
-    try {
+    await abandonTemporaryFile(this.fd, this.tmpPath, async () => {
       await this.input.abort(new Error('aborted'));
       await this.pump;
-    } catch {
-      // already failing
-    }
-    discardTemporaryFile(this.fd, this.tmpPath);
+    });
   }
 }
 

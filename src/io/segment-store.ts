@@ -15,7 +15,7 @@ import { crc32, crcHex, fileCrc32 } from './checksum.js';
 import { fsyncDir, writeFileAtomic, writeFileAtomicAsync } from './ipc-file.js';
 
 /** The marker every partial-run manifest carries. */
-export const PARTIAL_RUN_KIND = 'meltsweep partial run';
+const PARTIAL_RUN_KIND = 'meltsweep partial run';
 
 export interface PartialManifest {
   readonly sweepHash: string;

@@ -23,7 +23,7 @@ import { CAPPED_FLAG, cappedNote, type CappedChoice } from './capped-rows.js';
  * Every other row (ok, no_melt: crust 0, f_max 0) carries real values and is used; an output that is
  * null in some of them (onset of a no_melt row) leaves those rows out for that output only.
  */
-export const NOT_COMPUTED_STATUSES: ReadonlySet<string> = new Set(['failed', 'onset_beyond_range']);
+const NOT_COMPUTED_STATUSES: ReadonlySet<string> = new Set(['failed', 'onset_beyond_range']);
 
 /** Beyond this many rows the automatic summary after a run is skipped (memory: 8 bytes per value). */
 export const AUTO_SUMMARY_MAX_ROWS = 4_000_000;

@@ -67,11 +67,22 @@ async function verifyParquetFile(file: string, size: number): Promise<ChecksumCh
     return { status: 'bad', why: 'its footer cannot be read (truncated or damaged)' };
   }
   if (want === undefined) return { status: 'absent' };
+  return verifyDataBefore(file, want, (fd) => {
+    const footerStart = parquetFooterStart(fd, size);
+    return footerStart === null ? { status: 'bad', why: 'its footer is damaged' } : footerStart;
+  });
+}
+
+/**
+ * Compare `want` with the CRC-32 of the file's bytes before `dataEnd(fd)` (where its footer
+ * starts), or return what dataEnd found wrong.
+ */
+function verifyDataBefore(file: string, want: string, dataEnd: (fd: number) => number | ChecksumCheck): ChecksumCheck {
   const fd = fs.openSync(file, 'r');
   try {
-    const footerStart = parquetFooterStart(fd, size);
-    if (footerStart === null) return { status: 'bad', why: 'its footer is damaged' };
-    const crc = rangeCrc32(fd, 0, footerStart);
+    const end = dataEnd(fd);
+    if (typeof end !== 'number') return end;
+    const crc = rangeCrc32(fd, 0, end);
     if (crc === null) return { status: 'bad', why: 'it is shorter than its footer says (truncated)' };
     const got = crcHex(crc);
     return got === want ? { status: 'ok' } : { status: 'bad', why: `its data CRC-32 is ${got}, its footer recorded ${want} (damaged after it was written)` };
@@ -81,20 +92,13 @@ async function verifyParquetFile(file: string, size: number): Promise<ChecksumCh
 }
 
 function verifyIpcFile(file: string, size: number, want: string): ChecksumCheck {
-  const fd = fs.openSync(file, 'r');
-  try {
+  return verifyDataBefore(file, want, (fd) => {
     const tail = Buffer.alloc(10);
     if (size < 10 + 8 || fs.readSync(fd, tail, 0, 10, size - 10) !== 10 || tail.subarray(4).toString('latin1') !== 'ARROW1') {
       return { status: 'bad', why: 'its end is missing (truncated)' };
     }
     const footerLen = tail.readInt32LE(0);
     const covered = size - 10 - footerLen - EOS_BYTES;
-    if (footerLen <= 0 || covered < 8) return { status: 'bad', why: 'its footer is damaged' };
-    const crc = rangeCrc32(fd, 0, covered);
-    if (crc === null) return { status: 'bad', why: 'it is shorter than its footer says (truncated)' };
-    const got = crcHex(crc);
-    return got === want ? { status: 'ok' } : { status: 'bad', why: `its data CRC-32 is ${got}, its footer recorded ${want} (damaged after it was written)` };
-  } finally {
-    fs.closeSync(fd);
-  }
+    return footerLen <= 0 || covered < 8 ? { status: 'bad', why: 'its footer is damaged' } : covered;
+  });
 }

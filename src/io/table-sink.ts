@@ -28,7 +28,7 @@ export interface TableSinkOptions {
 }
 
 /** The temporary name a sink writes under before publishing `finalPath`. */
-export function temporaryPathFor(finalPath: string): string {
+function temporaryPathFor(finalPath: string): string {
   return `${finalPath}.tmp-${process.pid}`;
 }
 

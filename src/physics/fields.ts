@@ -90,14 +90,15 @@ export type ProfileFieldName = (typeof PROFILE_FIELDS)[number]['name'];
  * is interpolated linearly in pressure; below the onset F = 0, productivity = 0, melt water null and
  * T on the solid adiabat (isentropic columns; null for conductive ones, whose path starts at the
  * onset). Rows of scenarios that were not computed (onset_beyond_range, failed) are null apart from
- * p_gpa and depth_km.
+ * p_gpa and depth_km. The first five columns are those of PROFILE_FIELDS (name, unit, label) with
+ * their own description.
  */
 export const PROFILE_TABLE_FIELDS = [
-  { name: 'p_gpa', unit: 'GPa', kind: 'float64', nullable: false, description: 'pressure of the grid point', label: 'pressure', displayUnit: 'GPa' },
-  { name: 'depth_km', unit: 'km', kind: 'float64', nullable: false, description: 'depth of the grid point, z = P / (rho_s g)', label: 'depth', displayUnit: 'km' },
-  { name: 't_c', unit: 'degC', kind: 'float64', nullable: true, description: 'temperature (below the onset: solid adiabat of isentropic columns, null for conductive ones; null above the top of the column)', label: 'temperature', displayUnit: '°C' },
-  { name: 'f', unit: 'fraction', kind: 'float64', nullable: true, description: 'melt fraction (mass fraction, 0-1; 0 below the onset)', label: 'melt fraction', displayUnit: '' },
-  { name: 'h2o_melt_wt_pct', unit: 'wt%', kind: 'float64', nullable: true, description: 'water in the melt at that point (null where there is no melt)', label: 'water in the melt', displayUnit: 'wt%' },
+  { ...PROFILE_FIELDS[0], nullable: false, description: 'pressure of the grid point' },
+  { ...PROFILE_FIELDS[1], nullable: false, description: 'depth of the grid point, z = P / (rho_s g)' },
+  { ...PROFILE_FIELDS[2], nullable: true, description: 'temperature (below the onset: solid adiabat of isentropic columns, null for conductive ones; null above the top of the column)' },
+  { ...PROFILE_FIELDS[3], nullable: true, description: 'melt fraction (mass fraction, 0-1; 0 below the onset)' },
+  { ...PROFILE_FIELDS[4], nullable: true, description: 'water in the melt at that point (null where there is no melt)' },
   { name: 'productivity_pct_per_gpa', unit: '%/GPa', kind: 'float64', nullable: true, description: 'local productivity -dF/dP x 100: slope of the interpolated path at that point (0 below the onset)', label: 'productivity', displayUnit: '%/GPa' },
 ] as const satisfies readonly FieldInfo[];
 

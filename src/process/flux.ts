@@ -23,21 +23,15 @@ export interface FluxRuntimeModel {
   readonly withProfile: boolean;
 }
 
-const TP: InputDef = Object.freeze({
-  name: 'tp_c', unit: 'degC', kind: 'float64', nullable: false, label: 'wedge potential temperature', displayUnit: '°C',
-  description: 'potential temperature of the wedge core (its solid adiabat below the plate)',
-  cliFlag: 'tp', min: INPUT_RANGES.tp_c.min, max: INPUT_RANGES.tp_c.max, minExclusive: false, default: null,
-});
-const WATER: InputDef = Object.freeze({
-  name: 'water_ppm', unit: 'ppm', kind: 'float64', nullable: false, label: 'wedge water', displayUnit: 'ppm',
-  description: 'bulk water of the wedge (ug/g)',
-  cliFlag: 'water', min: INPUT_RANGES.water_ppm.min, max: INPUT_RANGES.water_ppm.max, minExclusive: false, default: null,
-});
-const LID: InputDef = Object.freeze({
-  name: 'lid_km', unit: 'km', kind: 'float64', nullable: false, label: 'plate thickness', displayUnit: 'km',
-  description: 'thickness of the overriding plate (conductive, linear temperature)',
-  cliFlag: 'lid', min: INPUT_RANGES.lid_km.min, max: INPUT_RANGES.lid_km.max, minExclusive: false, default: null,
-});
+/** A required input on the scenario range shared with decompression (INPUT_RANGES), no default. */
+function sharedRangeInput(name: 'tp_c' | 'water_ppm' | 'lid_km', unit: string, displayUnit: string, label: string, description: string, cliFlag: string): InputDef {
+  const { min, max } = INPUT_RANGES[name];
+  return Object.freeze({ name, unit, kind: 'float64', nullable: false, label, displayUnit, description, cliFlag, min, max, minExclusive: false, default: null });
+}
+
+const TP = sharedRangeInput('tp_c', 'degC', '°C', 'wedge potential temperature', 'potential temperature of the wedge core (its solid adiabat below the plate)', 'tp');
+const WATER = sharedRangeInput('water_ppm', 'ppm', 'ppm', 'wedge water', 'bulk water of the wedge (ug/g)', 'water');
+const LID = sharedRangeInput('lid_km', 'km', 'km', 'plate thickness', 'thickness of the overriding plate (conductive, linear temperature)', 'lid');
 const SLAB: InputDef = Object.freeze({
   name: 'slab_depth_km', unit: 'km', kind: 'float64', nullable: false, label: 'slab depth', displayUnit: 'km',
   description: 'depth of the slab top under the column: the bottom of the column',

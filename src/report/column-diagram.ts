@@ -15,8 +15,9 @@
 import type { ModelOptions } from '../physics/types.js';
 import { axisTitle, fixedValueLabel, profileFieldInfo } from './labels.js';
 import { columnDiagramData, DRY_SOLIDUS, LHERZ_LIQUIDUS, type ColumnDiagramData, type DiagramScenario } from './column-diagram-data.js';
-import { keyPanel, renderFigure, wrappedTitle, type FigureLayout, type KeyEntry } from './figure.js';
+import { keyPanel, pressureAxisPanel, renderFigure, wrappedTitle, type FigureLayout, type KeyEntry } from './figure.js';
 import type { PlotSpec, RenderedSvg } from './render.js';
+import { meltFractionAxisMax } from './ticks.js';
 import { CATEGORICAL, LID_BAR, MAX_DIAGRAM_SCENARIOS, REFERENCE } from './theme.js';
 
 /** Layout options of a column diagram. */
@@ -80,22 +81,7 @@ function defaultSubtitle(data: ColumnDiagramData): string[] {
   return lines;
 }
 
-/** Round upper end of the melt-fraction axis. */
-function niceMax(v: number): number {
-  const steps = [0.01, 0.02, 0.05, 0.1, 0.15, 0.2, 0.25, 0.3, 0.4, 0.5, 0.6, 0.8, 1];
-  return steps.find((s) => s >= v * 1.04) ?? 1;
-}
 
-/** Round pressures (GPa) from 0 to max, about six of them. */
-function niceTicks(max: number): number[] {
-  if (!(max > 0)) return [0];
-  const raw = max / 6;
-  const mag = 10 ** Math.floor(Math.log10(raw));
-  const step = [1, 2, 5, 10].map((m) => m * mag).find((s) => s >= raw) ?? 10 * mag;
-  const out: number[] = [];
-  for (let v = 0; v <= max * (1 + 1e-9); v += step) out.push(Number(v.toPrecision(12)));
-  return out;
-}
 
 /** The Vega-Lite spec of a column diagram for data computed by columnDiagramData. */
 export function columnDiagramSpec(data: ColumnDiagramData, options: ColumnDiagramOptions = {}): PlotSpec {
@@ -183,7 +169,7 @@ export function columnDiagramSpec(data: ColumnDiagramData, options: ColumnDiagra
     },
   };
 
-  const fDomainMax = niceMax(fMaxAll);
+  const fDomainMax = meltFractionAxisMax(fMaxAll);
   const meltWidth = Math.round(Math.max(60, width * 0.42));
   const meltPanel = {
     width: meltWidth,
@@ -203,20 +189,8 @@ export function columnDiagramSpec(data: ColumnDiagramData, options: ColumnDiagra
       },
     ],
   };
-  // pressure as a right-hand axis of the same depth scale (z = P / (rho_s g)): an empty, one pixel
-  // wide panel whose axis has ticks at round pressures, placed at their depths
-  const gpaPerKm = data.pressureMaxGpa / data.depthMaxKm;
-  const pressureAxis = {
-    width: 1,
-    height,
-    data: { values: [{ depth_km: 0 }] },
-    mark: { type: 'tick' as const, opacity: 0 },
-    encoding: {
-      y: {
-        ...y(axisTitle(profileFieldInfo('p_gpa')), { orient: 'right' as const, grid: false, values: niceTicks(data.pressureMaxGpa).map((pg) => pg / gpaPerKm), labelExpr: `format(datum.value * ${gpaPerKm}, '.1~f')` }),
-      },
-    },
-  };
+  const pressureAxis = pressureAxisPanel(y, axisTitle(profileFieldInfo('p_gpa')), data.pressureMaxGpa, data.depthMaxKm, height);
+
 
   // the key: scenarios (numbered as their lanes), then the reference curves and the marks
   const keyWidth = width + lanePanel.width + meltWidth + 70;

@@ -7,6 +7,7 @@
 import { wrapText, textWidthPx } from './font.js';
 import { renderSvg, type PlotSpec, type RenderedSvg } from './render.js';
 import { INK, MUTED } from './theme.js';
+import { ticksFromZero } from './ticks.js';
 
 /** Type sizes of the house style, px (1 px prints at 0.75 pt). */
 export const TYPE = { title: 14, subtitle: 11, key: 10.5, keyTitle: 11, note: 10 } as const;
@@ -108,6 +109,23 @@ export function keyPanel(sections: readonly KeySection[], width: number, minColu
   }
   const height = Math.max(1, Math.ceil(bottom));
   return { spec: { width, height, layer: layers, view: { stroke: null } }, height };
+}
+
+/**
+ * A pressure axis on the right of a depth scale (z = P / (rho_s g)): an empty panel one pixel wide
+ * whose axis has ticks at round pressures placed at their depths. `depth` gives the panel's depth
+ * encoding with a title and axis properties (the diagram's own depth scale).
+ */
+export function pressureAxisPanel(
+  depth: (title: string, axis: Record<string, unknown>) => Record<string, unknown>,
+  title: string,
+  pressureMaxGpa: number,
+  depthMaxKm: number,
+  height: number,
+): Record<string, unknown> {
+  const gpaPerKm = pressureMaxGpa / depthMaxKm;
+  const axis = { orient: 'right', grid: false, values: ticksFromZero(pressureMaxGpa).map((pg) => pg / gpaPerKm), labelExpr: `format(datum.value * ${gpaPerKm}, '.1~f')` };
+  return { width: 1, height, data: { values: [{ depth_km: 0 }] }, mark: { type: 'tick', opacity: 0 }, encoding: { y: depth(title, axis) } };
 }
 
 /** A title (and subtitle lines) wrapped to a width, as a Vega-Lite title object. */

@@ -13,9 +13,10 @@ import { drySolidusC } from '../physics/melting.js';
 import { pGpaFromDepthKm } from '../physics/units.js';
 import { computeFlux, flux, FLUX_INPUTS, FLUX_TABLE_INPUTS, type FluxRuntimeModel } from '../process/flux.js';
 import type { ProcessDiagram, ProcessResult } from '../process/types.js';
-import { keyPanel, wrappedTitle, type FigureLayout, type KeyEntry } from './figure.js';
+import { keyPanel, pressureAxisPanel, wrappedTitle, type FigureLayout, type KeyEntry } from './figure.js';
 import { formatNumber, labelsOfProcess } from './labels.js';
 import type { PlotSpec } from './render.js';
+import { meltFractionAxisMax } from './ticks.js';
 import { CATEGORICAL, MAX_DIAGRAM_SCENARIOS, MUTED, REFERENCE } from './theme.js';
 
 /** One scenario to draw: the process inputs by name, and an optional key label. */
@@ -66,19 +67,7 @@ export interface FluxDiagramData {
   };
 }
 
-function niceMax(v: number): number {
-  const steps = [0.01, 0.02, 0.05, 0.1, 0.15, 0.2, 0.25, 0.3, 0.4, 0.5, 0.6, 0.8, 1];
-  return steps.find((s) => s >= v * 1.04) ?? 1;
-}
 
-function pressureTicks(max: number): number[] {
-  const raw = max / 6;
-  const mag = 10 ** Math.floor(Math.log10(raw));
-  const step = [1, 2, 5, 10].map((m) => m * mag).find((s) => s >= raw) ?? 10 * mag;
-  const out: number[] = [];
-  for (let v = 0; v <= max * (1 + 1e-9); v += step) out.push(Number(v.toPrecision(12)));
-  return out;
-}
 
 /** Compute every scenario (with profiles) and arrange the rows the diagram draws. */
 export function fluxDiagramData(items: readonly FluxDiagramItem[], model: FluxRuntimeModel): FluxDiagramData {
@@ -217,7 +206,7 @@ export function fluxDiagramSpec(data: FluxDiagramData, options: FluxDiagramOptio
     ],
   };
   const fMax = Math.max(0.01, ...data.rows.melt.map((r) => r.f as number));
-  const fDomainMax = niceMax(fMax);
+  const fDomainMax = meltFractionAxisMax(fMax);
   const meltWidth = Math.round(Math.max(70, width * 0.45));
   const fx = (title: string | null) => ({ field: 'f', type: 'quantitative' as const, title, scale: { domain: [0, fDomainMax], nice: false } });
   const meltPanel = {
@@ -250,14 +239,8 @@ export function fluxDiagramSpec(data: FluxDiagramData, options: FluxDiagramOptio
       },
     ],
   };
-  const gpaPerKm = data.pressureMaxGpa / data.depthMaxKm;
-  const pressureAxis = {
-    width: 1,
-    height,
-    data: { values: [{ depth_km: 0 }] },
-    mark: { type: 'tick' as const, opacity: 0 },
-    encoding: { y: { ...y(words.axisTitle('p_gpa'), { orient: 'right' as const, grid: false, values: pressureTicks(data.pressureMaxGpa).map((pg) => pg / gpaPerKm), labelExpr: `format(datum.value * ${gpaPerKm}, '.1~f')` }) } },
-  };
+  const pressureAxis = pressureAxisPanel(y, words.axisTitle('p_gpa'), data.pressureMaxGpa, data.depthMaxKm, height);
+
   const keyWidth = width + meltWidth + 60;
   const threshold = (r: ProcessResult): string => {
     const t = r.values.water_threshold_ppm;

@@ -8,6 +8,7 @@
  * table takes its words from that table's process: `labelsOfProcess` (a FieldLabels). The
  * module-level functions below (labelOf, axisTitleOf, ...) are those of the default process.
  */
+import { formatSignificant } from '../number-format.js';
 import { PROFILE_FIELDS, type FieldInfo } from '../physics/fields.js';
 import { allProcesses, DEFAULT_PROCESS, everyResultOf, processNamed } from '../process/registry.js';
 import type { AnyProcess } from '../process/types.js';
@@ -76,11 +77,7 @@ const INPUT_SYMBOLS: Readonly<Record<string, string>> = {
 
 /** A compact number for labels: up to 4 significant digits, no trailing zeros, no thousands separator. */
 export function formatNumber(v: number): string {
-  if (!Number.isFinite(v)) return String(v);
-  if (v === 0) return '0';
-  const a = Math.abs(v);
-  if (a >= 1e5 || a < 1e-3) return v.toExponential(2);
-  return String(Number(v.toPrecision(4)));
+  return formatSignificant(v, { expAbove: 1e5, expDigits: 2 });
 }
 
 /**

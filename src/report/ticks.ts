@@ -82,3 +82,20 @@ export function logAxisTicks(lo: number, hi: number, widthPx: number, along: 'x'
   const one = sets.find((t) => t.length > 0);
   return one === undefined ? [lo] : [one[0]];
 }
+
+/** The top of a melt-fraction axis: the next of 0.01, 0.02, ... 1 at least 4 % above the largest value. */
+export function meltFractionAxisMax(v: number): number {
+  const steps = [0.01, 0.02, 0.05, 0.1, 0.15, 0.2, 0.25, 0.3, 0.4, 0.5, 0.6, 0.8, 1];
+  return steps.find((s) => s >= v * 1.04) ?? 1;
+}
+
+/** Round values from 0 to max, about six of them (a step of 1, 2 or 5 x 10^k), e.g. pressures in GPa. */
+export function ticksFromZero(max: number): number[] {
+  if (!(max > 0)) return [0];
+  const raw = max / 6;
+  const mag = 10 ** Math.floor(Math.log10(raw));
+  const step = [1, 2, 5, 10].map((m) => m * mag).find((s) => s >= raw) ?? 10 * mag;
+  const out: number[] = [];
+  for (let v = 0; v <= max * (1 + 1e-9); v += step) out.push(Number(v.toPrecision(12)));
+  return out;
+}

@@ -24,7 +24,7 @@ import { sweepWorkerFile } from './worker-file.js';
  * made one at a time. Every run cuts its range at rowStart + k x chunkSize and a segment holds
  * whole chunks, so a resume cuts exactly where an uninterrupted run would.
  */
-export function* gapChunks(kept: readonly Segment[], rowStart: number, rowEnd: number, chunkSize: number): Generator<readonly [number, number]> {
+function* gapChunks(kept: readonly Segment[], rowStart: number, rowEnd: number, chunkSize: number): Generator<readonly [number, number]> {
   let from = rowStart;
   for (const seg of [...kept.map((k) => ({ start: k.start, end: k.end })), { start: rowEnd, end: rowEnd }]) {
     for (let s = from; s < seg.start; s += chunkSize) yield [s, Math.min(s + chunkSize, seg.start)];

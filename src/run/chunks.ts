@@ -11,7 +11,7 @@ const MAX_CHUNK_ROWS = { isentropic: 4096, conductive: 256 } as const;
 const MIN_CHUNK_ROWS = 16;
 
 /** Profile rows (scenarios x grid points) one chunk may carry: bounds a chunk's memory with --profiles. */
-export const MAX_CHUNK_PROFILE_ROWS = 1_048_576;
+const MAX_CHUNK_PROFILE_ROWS = 1_048_576;
 
 /**
  * Rows per chunk of a sweep range.

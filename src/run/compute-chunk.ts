@@ -5,7 +5,7 @@
  */
 import { COLUMN_STATUSES, type ColumnStatus } from '../physics/types.js';
 import { allocatePointBatch, planSweep } from '../plan/index.js';
-import type { PointBatch, Plan } from '../plan/types.js';
+import type { Plan } from '../plan/types.js';
 import { processOfSpec, resultsOf } from '../process/registry.js';
 import type { AnyProcess, ProcessResult } from '../process/types.js';
 import type { SweepSpec } from '../spec/types.js';
@@ -13,10 +13,10 @@ import { profileGridPressures, type ProfileGrid } from './profile-grid.js';
 import { allocateProfileSamples, clearProfileRow } from './profile-sampling.js';
 import type { ChunkResult } from '../process/chunk-result.js';
 
-export const STATUS_CODE: Readonly<Record<ColumnStatus, number>> = Object.freeze(
+const STATUS_CODE: Readonly<Record<ColumnStatus, number>> = Object.freeze(
   Object.fromEntries(COLUMN_STATUSES.map((s, i) => [s, i])) as Record<ColumnStatus, number>,
 );
-export const FAILED_CODE = STATUS_CODE.failed;
+const FAILED_CODE = STATUS_CODE.failed;
 
 export type { ChunkResult } from '../process/chunk-result.js';
 

@@ -23,15 +23,15 @@ import { computeChunk, makeChunkContext } from './compute-chunk.js';
  * Start-up of the worker pool and the run's bookkeeping, s of wall time: a 16-row sweep takes
  * 0.5-1.0 s on two workers of the development machine (measured with `meltsweep run`, its printed time).
  */
-export const POOL_STARTUP_SECONDS = 0.5;
+const POOL_STARTUP_SECONDS = 0.5;
 /**
  * CPU of a run's main thread apart from writing, s, and CPU a worker spends starting (loading its
  * modules), s. Measured with process.cpuUsage around runSweep on the development machine: a 16-row
  * sweep (one chunk, one worker busy) uses 0.4-0.5 s, and a 5,000-row isentropic sweep uses 0.8 s
  * with one worker and 1.4 s with two.
  */
-export const RUN_START_CPU_SECONDS = 0.15;
-export const WORKER_START_CPU_SECONDS = 0.35;
+const RUN_START_CPU_SECONDS = 0.15;
+const WORKER_START_CPU_SECONDS = 0.35;
 /** Parallel efficiency assumed for the workers. */
 const PARALLEL_EFFICIENCY = 0.9;
 

@@ -53,7 +53,7 @@ export function checkCompanion(file: string, what: string, force: boolean, optio
 }
 
 /** Whether two paths name the same existing file (through links and relative names). */
-export function sameFile(a: string, b: string): boolean {
+function sameFile(a: string, b: string): boolean {
   const sa = fs.statSync(a, { throwIfNoEntry: false });
   const sb = fs.statSync(b, { throwIfNoEntry: false });
   if (sa !== undefined && sb !== undefined) return sa.dev === sb.dev && sa.ino === sb.ino;

@@ -15,7 +15,7 @@ export interface ProfileGrid {
 export const MAX_PROFILE_POINTS = 100_001;
 
 /** Number of points of a grid: from, from + step, ... up to to (a remainder below 1e-9 step counts as reached). */
-export function profileGridCount(grid: ProfileGrid): number {
+function profileGridCount(grid: ProfileGrid): number {
   return Math.floor((grid.toGpa - grid.fromGpa) / grid.stepGpa + 1e-9) + 1;
 }
 

@@ -49,7 +49,7 @@ export interface RunSetup {
 }
 
 /** Worker threads for a run: the request (default: every core), capped at the cores unless oversubscribed. */
-export function resolveWorkers(requested: number | undefined, oversubscribe: boolean): number {
+function resolveWorkers(requested: number | undefined, oversubscribe: boolean): number {
   const cores = os.availableParallelism();
   const want = Math.max(1, Math.floor(requested ?? cores));
   return oversubscribe ? want : Math.min(want, cores);

@@ -100,7 +100,7 @@ export async function loadSweepFile(path: string): Promise<SweepSpec> {
  * folder) of at most MAX_SWEEP_FILE_BYTES, read no further than that, holding UTF-8 text.
  * @throws InputError naming the file and what is wrong
  */
-export async function readSweepText(path: string): Promise<string> {
+async function readSweepText(path: string): Promise<string> {
   let bytes: Buffer;
   try {
     const fh = await open(path, 'r');

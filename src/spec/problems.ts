@@ -34,7 +34,7 @@ export class ProblemList {
 }
 
 /** `a.b` from `a` and `b`; the top level has the empty path. */
-export function joinPath(base: string, key: string): string {
+function joinPath(base: string, key: string): string {
   return base === '' ? key : `${base}.${key}`;
 }
 

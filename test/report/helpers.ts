@@ -1,7 +1,9 @@
 /** Helpers of the picture tests: XML well-formedness, counting marks in vega SVG, small sweeps. */
 import path from 'node:path';
 import { XMLValidator } from 'fast-xml-parser';
+import { COLUMN_STATUSES } from '../../src/physics/types.js';
 import { textWidthPx } from '../../src/report/font.js';
+import type { ResultsColumns } from '../../src/report/results-columns.js';
 import { runSweep } from '../../src/run/run-sweep.js';
 import { validateSweep } from '../../src/spec/index.js';
 
@@ -105,6 +107,20 @@ export function touchingTexts(svg: string, gap = 2): [string, string][] {
   return out;
 }
 
+/** A results table over the given axes (grid order, last axis fastest) whose output crust_km = f(row inputs); every row ok. */
+export function gridTable(axes: Record<string, number[]>, f: (r: Record<string, number>) => number): ResultsColumns {
+  let rows: Record<string, number>[] = [{}];
+  for (const n of Object.keys(axes)) rows = rows.flatMap((r) => axes[n].map((v) => ({ ...r, [n]: v })));
+  const col = (n: string) => Float64Array.from(rows, (r) => r[n] ?? 0);
+  return {
+    rows: rows.length,
+    inputs: { tp_c: col('tp_c'), water_ppm: col('water_ppm'), lid_km: col('lid_km'), upwelling_mm_yr: Float64Array.from(rows, () => NaN) },
+    outputs: { crust_km: Float64Array.from(rows, f) },
+    status: new Uint8Array(rows.length),
+    statusCounts: Object.fromEntries(COLUMN_STATUSES.map((s) => [s, s === 'ok' ? rows.length : 0])) as ResultsColumns['statusCounts'],
+  };
+}
+
 /** A 45-point isentropic grid (Tp x water x lid) written to dir/name. */
 export async function gridSweepFile(dir: string, name = 'grid.arrow'): Promise<string> {
   const spec = validateSweep({
@@ -134,12 +150,7 @@ export async function saltelliSweepFile(dir: string, name = 'saltelli.arrow'): P
 }
 
 /** A drawn point that lies outside the frame of the view that draws it. */
-export interface OutsidePoint {
-  readonly mark: string;
-  readonly x: number;
-  readonly y: number;
-  readonly frame: readonly [number, number, number, number];
-}
+export type OutsidePoint = MarkPoint;
 
 /** End points of every segment of an SVG path's d (absolute and relative M, L, H, V, C, Q, A, Z). */
 export function pathPoints(d: string): [number, number][] {

@@ -15,21 +15,8 @@ import { renderSvg } from '../../src/report/render.js';
 import type { ResultsColumns } from '../../src/report/results-columns.js';
 import { binEdges, binnedMap, gridSliceMap, type SweepMapData } from '../../src/report/sweep-map.js';
 import { validateSweep } from '../../src/spec/index.js';
-import { markGroups, markPoints, pathPoints, pointsOutsideFrame, xmlProblem } from './helpers.js';
+import { gridTable, markGroups, markPoints, pathPoints, pointsOutsideFrame, xmlProblem } from './helpers.js';
 
-/** A results table over the given axes (grid order), output crust_km = f(inputs). */
-function gridTable(axes: Record<string, number[]>, f: (r: Record<string, number>) => number): ResultsColumns {
-  let rows: Record<string, number>[] = [{}];
-  for (const n of Object.keys(axes)) rows = rows.flatMap((r) => axes[n].map((v) => ({ ...r, [n]: v })));
-  const col = (n: string) => Float64Array.from(rows, (r) => r[n] ?? 0);
-  return {
-    rows: rows.length,
-    inputs: { tp_c: col('tp_c'), water_ppm: col('water_ppm'), lid_km: col('lid_km'), upwelling_mm_yr: Float64Array.from(rows, () => NaN) },
-    outputs: { crust_km: Float64Array.from(rows, f) },
-    status: new Uint8Array(rows.length),
-    statusCounts: Object.fromEntries(COLUMN_STATUSES.map((s) => [s, s === 'ok' ? rows.length : 0])) as ResultsColumns['statusCounts'],
-  };
-}
 
 function gridMap(tp: number[], water: number[], f: (r: Record<string, number>) => number, scale: 'linear' | 'log' = 'linear'): SweepMapData {
   const spec = validateSweep({ name: 'm', axes: { tp_c: { values: tp }, water_ppm: { values: water, scale } }, design: { kind: 'grid' } });

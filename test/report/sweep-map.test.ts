@@ -1,26 +1,10 @@
 import { describe, expect, it } from 'vitest';
 import { validateSweep } from '../../src/spec/index.js';
-import { COLUMN_STATUSES } from '../../src/physics/types.js';
 import { binnedMap, cellEdges, gridSliceMap, MAX_MAP_CELLS, middleValue } from '../../src/report/sweep-map.js';
 import { sweepMapSpec } from '../../src/report/map-figure.js';
-import type { ResultsColumns } from '../../src/report/results-columns.js';
 import { renderSvg } from '../../src/report/render.js';
-import { axisTitles, markGroups, xmlProblem } from './helpers.js';
+import { axisTitles, gridTable, markGroups, xmlProblem } from './helpers.js';
 
-/** A table of rows in grid order over the given axes, with output y = f(row inputs). */
-function gridTable(axes: Record<string, number[]>, f: (r: Record<string, number>) => number): ResultsColumns {
-  const names = Object.keys(axes);
-  let rows: Record<string, number>[] = [{}];
-  for (const n of names) rows = rows.flatMap((r) => axes[n].map((v) => ({ ...r, [n]: v })));
-  const col = (n: string) => Float64Array.from(rows, (r) => r[n] ?? 0);
-  return {
-    rows: rows.length,
-    inputs: { tp_c: col('tp_c'), water_ppm: col('water_ppm'), lid_km: col('lid_km'), upwelling_mm_yr: Float64Array.from(rows, () => NaN) },
-    outputs: { crust_km: Float64Array.from(rows, f) },
-    status: new Uint8Array(rows.length),
-    statusCounts: Object.fromEntries(COLUMN_STATUSES.map((s) => [s, s === 'ok' ? rows.length : 0])) as ResultsColumns['statusCounts'],
-  };
-}
 
 describe('sweep maps', () => {
   it('puts cell edges half-way between grid values (geometrically on log axes)', () => {

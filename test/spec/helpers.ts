@@ -1,15 +1,7 @@
-import { InputError } from '../../src/errors.js';
+import { problemsOf as problemsThrownBy } from '../helpers.js';
 
 /** The problems of the InputError thrown by fn (fails the test when nothing is thrown). */
-export function problemsOf(fn: () => unknown): readonly string[] {
-  try {
-    fn();
-  } catch (err) {
-    if (err instanceof InputError) return err.problems;
-    throw err;
-  }
-  throw new Error('expected an InputError, but the call succeeded');
-}
+export const problemsOf = (fn: () => unknown): readonly string[] => problemsThrownBy(fn, true);
 
 /** A valid grid sweep file to derive bad files from by small edits. */
 export const BASE_YAML = `name: t

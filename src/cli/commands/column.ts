@@ -72,7 +72,7 @@ function rowFields(process: AnyProcess, r: ProcessResult): readonly FieldInfo[] 
 }
 
 /** The result as one flat object: status, reason, then every numeric result field of the row. */
-export function resultRecord(process: AnyProcess, r: ProcessResult): Record<string, string | number | null> {
+function resultRecord(process: AnyProcess, r: ProcessResult): Record<string, string | number | null> {
   const out: Record<string, string | number | null> = { [STATUS_FIELD.name]: r.status, [REASON_FIELD.name]: r.reason };
   for (const f of rowFields(process, r)) out[f.name] = r.values[f.name] ?? null;
   return out;
@@ -109,7 +109,7 @@ function formatNumber(v: number | null): string {
 }
 
 /** A short readable table: name, value, unit (units from the process's result fields). */
-export function resultTable(process: AnyProcess, r: ProcessResult): string {
+function resultTable(process: AnyProcess, r: ProcessResult): string {
   const rows: [string, string, string][] = [[STATUS_FIELD.name, r.status, '']];
   if (r.reason !== null) rows.push([REASON_FIELD.name, r.reason, '']);
   for (const f of rowFields(process, r)) {
@@ -122,7 +122,7 @@ export function resultTable(process: AnyProcess, r: ProcessResult): string {
 }
 
 /** The profile as CSV: header of the profile field names (units in the names), one row per point. */
-export function profileCsv(fields: readonly FieldInfo[], r: ProcessResult): string {
+function profileCsv(fields: readonly FieldInfo[], r: ProcessResult): string {
   const lines = [fields.map((f) => f.name).join(',')];
   const prof = r.profile;
   if (prof !== undefined && fields.length > 0) {

@@ -7,8 +7,8 @@ import { parseWorkers } from '../options.js';
 import { reportPathFor } from './report.js';
 
 /** The built-in demo sweep (an invented ridge segment) and where its results go. */
-export const DEMO_SWEEP = path.join('sweeps', 'demo-ridge-r7.yaml');
-export const DEMO_OUTPUT = path.join('out', 'demo-ridge-r7.arrow');
+const DEMO_SWEEP = path.join('sweeps', 'demo-ridge-r7.yaml');
+const DEMO_OUTPUT = path.join('out', 'demo-ridge-r7.arrow');
 
 export function registerDemo(program: Command): void {
   program

@@ -6,7 +6,7 @@
  * `--tp 1300,1400 --water 0,200` draws four scenarios. At most MAX_DIAGRAM_SCENARIOS (8).
  */
 import type { Command } from 'commander';
-import { InputError } from '../../errors.js';
+import { collectInputErrors, InputError } from '../../errors.js';
 import { writeFileAtomic } from '../../io/ipc-file.js';
 import { defaultModel } from '../../physics/column.js';
 import type { InputName } from '../../physics/fields.js';
@@ -64,15 +64,7 @@ export function parseNumberList(option: string, raw: string, range: InputRange):
 /** The scenarios (cartesian product of the lists) and the model of a `plot column` call. @throws InputError */
 export function plotColumnInputs(o: PlotColumnOptions): { scenarios: Scenario[]; model: ModelOptions } {
   const problems: string[] = [];
-  const attempt = <T>(fn: () => T, fallback: T): T => {
-    try {
-      return fn();
-    } catch (err) {
-      if (!(err instanceof InputError)) throw err;
-      problems.push(...err.problems);
-      return fallback;
-    }
-  };
+  const attempt = <T>(fn: () => T, fallback: T): T => collectInputErrors(problems, fn, fallback);
   const list = (option: string, raw: string | undefined, name: InputName): number[] =>
     raw === undefined ? [Number.NaN] : attempt(() => parseNumberList(option, raw, INPUT_RANGES[name]), []);
   if (o.tp === undefined) problems.push(`--tp: missing; give one or more mantle potential temperatures, ${formatRange(INPUT_RANGES.tp_c)}`);

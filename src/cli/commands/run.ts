@@ -33,7 +33,7 @@ export interface RunCommandOptions {
 }
 
 /** Exit code of an interrupted run (128 + SIGINT), the shell convention. */
-export const EXIT_INTERRUPTED = 130;
+const EXIT_INTERRUPTED = 130;
 
 /**
  * Run a sweep file the way `meltsweep run` does: Ctrl-C stops cleanly (a second Ctrl-C

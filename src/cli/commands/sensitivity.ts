@@ -27,7 +27,7 @@ async function replaceableSensitivityTable(out: string, file: string, sweepHash:
 }
 
 /** Analyze a results file, write its sensitivity table, and return the printed summary. */
-export async function summarizeResults(
+async function summarizeResults(
   file: string,
   o: { outputs?: string[]; resamples?: number; seed?: number; output?: string; capped?: CappedChoice; force?: boolean } = {},
 ): Promise<string> {
