@@ -8,6 +8,8 @@ import { formatNumber } from './labels.js';
 
 /** Font size of axis tick labels, px (the theme's axis labelFontSize). */
 export const TICK_LABEL_SIZE = 10.5;
+/** Most ticks on a linear axis: more read as a ruler, not as values. */
+export const MAX_TICKS = 7;
 /** Least gap between two neighbouring tick labels, px. */
 export const TICK_LABEL_GAP = 8;
 
@@ -47,15 +49,15 @@ function multiplesIn(lo: number, hi: number, step: number): number[] {
 }
 
 /**
- * Round tick values inside [lo, hi] of a linear axis widthPx long, as many as fit: the smallest
- * nice step whose labels do not touch. At least the one or two values that fit.
+ * Round tick values inside [lo, hi] of a linear axis widthPx long, as many as fit (at most
+ * MAX_TICKS): the smallest nice step whose labels do not touch. At least the one value that fits.
  */
 export function linearTicks(lo: number, hi: number, widthPx: number, along: 'x' | 'y' = 'x'): number[] {
   if (!(hi > lo)) return [lo];
   const px = (v: number): number => ((v - lo) / (hi - lo)) * widthPx;
   for (const step of niceSteps(hi - lo)) {
     const ticks = multiplesIn(lo, hi, step);
-    if (ticks.length > 12) continue;
+    if (ticks.length > MAX_TICKS) continue;
     if (ticks.length >= 2 && labelsFit(ticks.map(px), ticks.map(tickLabel), along)) return ticks;
   }
   return [lo];

@@ -6,7 +6,7 @@ import { renderSvg } from '../../src/report/render.js';
 import { layoutWidthFor, svgSize } from '../../src/report/export.js';
 import { renderFigure } from '../../src/report/figure.js';
 import { mainEffectsSpec, sensitivityBarsLayout, sensitivityBarsSpec } from '../../src/report/sensitivity-bars.js';
-import { labelsFit, linearTicks, logAxisTicks } from '../../src/report/ticks.js';
+import { labelsFit, linearTicks, logAxisTicks, MAX_TICKS } from '../../src/report/ticks.js';
 import { axisTitles, markGroups, markPoints, pointsOutsideFrame, svgTexts, textBoxes, touchingTexts, xmlProblem } from './helpers.js';
 
 const decompression = labelsOfProcess('decompression');
@@ -133,4 +133,11 @@ describe('index bars laid out for a journal column', () => {
       if (mm === 60) expect(names.length).toBeGreaterThan(inputs.length);
     });
   }
+});
+
+describe('index bar axis', () => {
+  it('shows at most seven round ticks from 0 to 1, however wide the bars', () => {
+    expect(linearTicks(0, 1, 300)).toEqual([0, 0.2, 0.4, 0.6, 0.8, 1]);
+    expect(linearTicks(0, 1, 1000).length).toBeLessThanOrEqual(MAX_TICKS);
+  });
 });
