@@ -8,8 +8,8 @@
  * Run standalone: node dist/bench/column.js
  */
 import { defaultModel, meltColumn } from '../src/physics/column.js';
-import type { ColumnResult, Scenario } from '../src/physics/types.js';
-import { formatBench, isMain, measureRates, recurrencePoint, summarise, type BenchResult } from './util.js';
+import type { Scenario } from '../src/physics/types.js';
+import { benchScenarioRate, formatBench, isMain, recurrencePoint, type BenchResult, type ScenarioBenchOptions } from './util.js';
 
 /** The benchmark's scenario set: a low-discrepancy (additive recurrence) fill of the box. */
 export function benchScenarios(count = 2000): Scenario[] {
@@ -26,10 +26,7 @@ export function benchScenarios(count = 2000): Scenario[] {
   return out;
 }
 
-export interface ColumnBenchOptions {
-  readonly repetitions?: number;
-  readonly minSeconds?: number;
-  readonly scenarios?: number;
+export interface ColumnBenchOptions extends ScenarioBenchOptions {
   /** a fixed step (GPa) instead of the default tolerance */
   readonly stepGpa?: number;
 }
@@ -41,25 +38,10 @@ export interface ColumnBenchOptions {
  * against the figure; `wall` holds the same statistics per second of wall-clock time.
  */
 export async function benchColumn(opts: ColumnBenchOptions = {}): Promise<BenchResult & { readonly wall: BenchResult }> {
-  const repetitions = opts.repetitions ?? 5;
-  const minSeconds = opts.minSeconds ?? 2;
-  const scenarios = benchScenarios(opts.scenarios ?? 2000);
   const model = defaultModel(opts.stepGpa === undefined ? { thermal: 'isentropic' } : { thermal: 'isentropic', stepGpa: opts.stepGpa });
   const label = opts.stepGpa === undefined ? 'default tolerance' : `fixed ${opts.stepGpa} GPa step`;
-  let sink = 0;
-  const once = (): void => {
-    for (const s of scenarios) {
-      const r: ColumnResult = meltColumn(s, model);
-      sink += r.crust_km ?? 0;
-    }
-  };
-  once(); // warm up the JIT
-  const rates = await measureRates(once, scenarios.length, repetitions, minSeconds);
-  if (!Number.isFinite(sink)) throw new Error('bench: non-finite crust');
-  return {
-    ...summarise(`isentropic column, ${label} (CPU time, one core)`, 'columns/s', rates.cpu),
-    wall: summarise(`isentropic column, ${label} (wall clock)`, 'columns/s', rates.wall),
-  };
+  const one = (s: Scenario): number => meltColumn(s, model).crust_km ?? 0;
+  return benchScenarioRate(`isentropic column, ${label}`, benchScenarios(opts.scenarios ?? 2000), one, opts);
 }
 
 if (isMain(import.meta.url)) {

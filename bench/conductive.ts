@@ -10,7 +10,7 @@
 import { conductiveColumn } from '../src/physics/conductive-column.js';
 import { DEFAULT_PARAMS } from '../src/physics/params.js';
 import type { ModelOptions, Scenario } from '../src/physics/types.js';
-import { formatBench, isMain, measureRates, recurrencePoint, summarise, type BenchResult } from './util.js';
+import { benchScenarioRate, formatBench, isMain, recurrencePoint, type BenchResult, type ScenarioBenchOptions } from './util.js';
 
 /** The benchmark's scenario set: a low-discrepancy (additive recurrence) fill of the box. */
 export function conductiveBenchScenarios(count = 1000): Scenario[] {
@@ -27,35 +27,21 @@ export function conductiveBenchScenarios(count = 1000): Scenario[] {
   return out;
 }
 
-export interface ConductiveBenchOptions {
+export interface ConductiveBenchOptions extends ScenarioBenchOptions {
   /** a fixed grid (conductiveResolution) instead of the tolerance control */
   readonly resolution?: number;
-  readonly repetitions?: number;
-  readonly minSeconds?: number;
-  readonly scenarios?: number;
 }
 
-/** Median conductive columns/s on the calling thread (name, unit, median, min, max, repetitions). */
-export async function benchConductive(opts: ConductiveBenchOptions = {}): Promise<BenchResult> {
-  const repetitions = opts.repetitions ?? 5;
-  const minSeconds = opts.minSeconds ?? 2;
-  const scenarios = conductiveBenchScenarios(opts.scenarios ?? 1000);
+/** Median conductive columns/s on the calling thread (CPU time; `wall`: wall clock). */
+export async function benchConductive(opts: ConductiveBenchOptions = {}): Promise<BenchResult & { readonly wall: BenchResult }> {
   const model: ModelOptions = { thermal: 'conductive', water: 'batch', params: DEFAULT_PARAMS, ...(opts.resolution === undefined ? {} : { conductiveResolution: opts.resolution }) };
-  let sink = 0;
-  let failed = 0;
-  const once = (): void => {
-    for (const s of scenarios) {
-      const r = conductiveColumn(s, model);
-      sink += r.crust_km ?? 0;
-      if (r.status === 'failed') failed++;
-    }
-  };
-  once(); // warm up the JIT
-  if (failed > 0) throw new Error(`bench: ${failed} conductive columns failed`);
-  const rates = await measureRates(once, scenarios.length, repetitions, minSeconds);
-  if (!Number.isFinite(sink)) throw new Error('bench: non-finite crust');
   const how = opts.resolution === undefined ? 'default tolerance 1e-3' : `fixed grid, resolution ${opts.resolution} (before)`;
-  return summarise(`conductive column, ${how} (CPU time, one core)`, 'columns/s', rates.cpu);
+  const one = (s: Scenario): number => {
+    const r = conductiveColumn(s, model);
+    if (r.status === 'failed') throw new Error(`bench: a conductive column failed: ${r.reason ?? ''}`);
+    return r.crust_km ?? 0;
+  };
+  return benchScenarioRate(`conductive column, ${how}`, conductiveBenchScenarios(opts.scenarios ?? 1000), one, opts);
 }
 
 if (isMain(import.meta.url)) {

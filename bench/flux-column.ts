@@ -9,7 +9,7 @@
  */
 import { resolveParams } from '../src/physics/params.js';
 import { computeFlux, type FluxRuntimeModel } from '../src/process/flux.js';
-import { formatBench, isMain, measureRates, recurrencePoint, summarise, type BenchResult } from './util.js';
+import { benchScenarioRate, formatBench, isMain, recurrencePoint, type BenchResult, type ScenarioBenchOptions } from './util.js';
 
 /** The benchmark's scenario set: a low-discrepancy (additive recurrence) fill of the box. */
 export function fluxBenchScenarios(count = 2000): { readonly inputs: Record<string, number>; readonly heat: 'fixed' | 'balanced' }[] {
@@ -24,33 +24,15 @@ export function fluxBenchScenarios(count = 2000): { readonly inputs: Record<stri
   return out;
 }
 
-export interface FluxBenchOptions {
-  readonly repetitions?: number;
-  readonly minSeconds?: number;
-  readonly scenarios?: number;
-}
-
 /** Flux columns per second on one core (CPU time), with the wall-clock figure alongside. */
-export async function benchFluxColumn(opts: FluxBenchOptions = {}): Promise<BenchResult & { readonly wall: BenchResult }> {
-  const repetitions = opts.repetitions ?? 5;
-  const minSeconds = opts.minSeconds ?? 2;
-  const scenarios = fluxBenchScenarios(opts.scenarios ?? 2000);
+export async function benchFluxColumn(opts: ScenarioBenchOptions = {}): Promise<BenchResult & { readonly wall: BenchResult }> {
   const params = resolveParams({});
   const models: Record<'fixed' | 'balanced', FluxRuntimeModel> = {
     fixed: { heat: 'fixed', params, table: null, tableFile: null, withProfile: false },
     balanced: { heat: 'balanced', params, table: null, tableFile: null, withProfile: false },
   };
-  let sink = 0;
-  const once = (): void => {
-    for (const s of scenarios) sink += computeFlux(s.inputs, models[s.heat]).values.melt_column_km ?? 0;
-  };
-  once(); // warm up the JIT
-  const rates = await measureRates(once, scenarios.length, repetitions, minSeconds);
-  if (!Number.isFinite(sink)) throw new Error('bench: non-finite melt column');
-  return {
-    ...summarise('flux column (CPU time, one core)', 'columns/s', rates.cpu),
-    wall: summarise('flux column (wall clock)', 'columns/s', rates.wall),
-  };
+  const scenarios = fluxBenchScenarios(opts.scenarios ?? 2000);
+  return benchScenarioRate('flux column', scenarios, (s) => computeFlux(s.inputs, models[s.heat]).values.melt_column_km ?? 0, opts);
 }
 
 if (isMain(import.meta.url)) {

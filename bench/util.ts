@@ -83,3 +83,32 @@ export async function measureRates(
   }
   return { cpu, wall };
 }
+
+/** Options of a per-scenario rate benchmark (column benches). */
+export interface ScenarioBenchOptions {
+  readonly repetitions?: number;
+  readonly minSeconds?: number;
+  readonly scenarios?: number;
+}
+
+/**
+ * Scenarios per second of `one` over a scenario set, on the calling thread: a warm-up pass (the JIT),
+ * then measureRates (default 5 repetitions of at least 2 s). `one` returns a number that is summed
+ * and checked finite, so the work cannot be optimised away. Figures: `NAME (CPU time, one core)`,
+ * and `wall` = `NAME (wall clock)`.
+ */
+export async function benchScenarioRate<S>(
+  name: string,
+  scenarios: readonly S[],
+  one: (s: S) => number,
+  opts: ScenarioBenchOptions,
+): Promise<BenchResult & { readonly wall: BenchResult }> {
+  let sink = 0;
+  const once = (): void => {
+    for (const s of scenarios) sink += one(s);
+  };
+  once();
+  const rates = await measureRates(once, scenarios.length, opts.repetitions ?? 5, opts.minSeconds ?? 2);
+  if (!Number.isFinite(sink)) throw new Error(`bench: ${name}: a non-finite result`);
+  return { ...summarise(`${name} (CPU time, one core)`, 'columns/s', rates.cpu), wall: summarise(`${name} (wall clock)`, 'columns/s', rates.wall) };
+}

@@ -18,18 +18,11 @@ import { findMeltOnset } from '../../src/physics/onset.js';
 import { DEFAULT_PARAMS as P } from '../../src/physics/params.js';
 import type { ColumnResult, ModelOptions, Scenario } from '../../src/physics/types.js';
 import { depthKmFromPGpa, wtPctFromPpm } from '../../src/physics/units.js';
+import { seededRandom } from './seeded-random.js';
 
 const MODEL: ModelOptions = { thermal: 'conductive', water: 'batch', params: P };
 const REFERENCE_RESOLUTION = 32;
 
-/** Deterministic generator (Park-Miller minimal standard), so the sample is the same on every run. */
-function rng(seed: number): () => number {
-  let s = seed;
-  return () => {
-    s = (s * 48271) % 2147483647;
-    return s / 2147483647;
-  };
-}
 
 const sc = (tp_c: number, water_ppm: number, lid_km: number, upwelling_mm_yr: number): Scenario => ({ tp_c, water_ppm, lid_km, upwelling_mm_yr });
 
@@ -39,7 +32,7 @@ const sc = (tp_c: number, water_ppm: number, lid_km: number, upwelling_mm_yr: nu
  * mm/yr log-uniform.
  */
 function sample(n: number, seed: number): Scenario[] {
-  const u = rng(seed);
+  const u = seededRandom(seed);
   const out: Scenario[] = [];
   for (let i = 0; i < n; i++) {
     const tp = 1200 + 400 * u();

@@ -15,6 +15,7 @@ import { findMeltOnset } from '../../src/physics/onset.js';
 import { DEFAULT_PARAMS as P } from '../../src/physics/params.js';
 import type { ColumnResult, ModelOptions, Scenario, WaterMode } from '../../src/physics/types.js';
 import { depthKmFromPGpa, wtPctFromPpm } from '../../src/physics/units.js';
+import { seededRandom } from './seeded-random.js';
 
 type Output = 'f_max' | 'f_mean' | 'crust_km' | 't_top_c' | 'h2o_melt_wt_pct' | 'productivity_pct_per_gpa';
 const OUTPUTS: readonly Output[] = ['f_max', 'f_mean', 'crust_km', 't_top_c', 'h2o_melt_wt_pct', 'productivity_pct_per_gpa'];
@@ -35,14 +36,6 @@ const TOL = 1e-4;
 
 const model = (water: WaterMode, over: Partial<ModelOptions>): ModelOptions => defaultModel({ thermal: 'isentropic', water, ...over });
 
-/** Deterministic generator (Park-Miller minimal standard), so the sample is the same on every run. */
-function rng(seed: number): () => number {
-  let s = seed;
-  return () => {
-    s = (s * 48271) % 2147483647;
-    return s / 2147483647;
-  };
-}
 
 interface Case {
   readonly s: Scenario;
@@ -51,7 +44,7 @@ interface Case {
 
 /** Seeded sample: Tp 1100-1800 degC, water 0 or 1-50000 ppm log-uniform, lid 0 or 0-200 km, both modes. */
 function sample(n: number, seed: number): Case[] {
-  const u = rng(seed);
+  const u = seededRandom(seed);
   const out: Case[] = [];
   for (let i = 0; i < n; i++) {
     const tp = 1100 + 700 * u();

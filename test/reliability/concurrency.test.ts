@@ -164,7 +164,8 @@ describe('bounded resources', () => {
     expect(rssMb).toBeLessThan(300);
     // the bound the issue asks for, measured from the signal: Ctrl-C cancels the unfinished chunks
     // (a running one stops its thread) and the process exits as soon as the partial run is
-    // committed; scripts/interrupt-timing.mjs measured 0.15-0.45 s on the loaded 2-core machine
+    // committed; scripts/interrupt-timing.mjs measured 0.15-0.33 s at load 4.5 and 0.22-1.1 s
+    // (median 0.5 s) at load 9 on the 2-core machine, 0.96 s here once under the whole suite at load 12
     expect(stopMs).toBeLessThan(2000);
     expect(stderr).toContain('--resume');
     expect(fs.existsSync(`${out}.partial/manifest.json`)).toBe(true);
