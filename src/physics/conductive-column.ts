@@ -30,7 +30,7 @@
  */
 import { failedResult, meltingResult, type MeltingSummary, noMeltResult, onsetBeyondRangeResult } from './column-result.js';
 import { buildConductiveGrid, conductiveBottomM } from './conductive-grid.js';
-import { farFieldTempK } from './conductive-far-field.js';
+import { farFieldGrowthPerM, farFieldTempK } from './conductive-far-field.js';
 import {
   CONDUCTIVE_MAX_RESOLUTION,
   CONDUCTIVE_TOLERANCE_MAX,
@@ -44,7 +44,7 @@ import { batchMeltWaterWtPct, fCpxOut, wetSolidusC } from './melting.js';
 import { checkColumnInputs } from './column-inputs.js';
 import { beyondRangeReason, findMeltOnset } from './onset.js';
 import type { MeltParams } from './params.js';
-import { MODEL_MAX_P_GPA, type ColumnProfile, type ColumnResult, type ModelOptions, type Scenario } from './types.js';
+import { MODEL_MAX_P_GPA, type ColumnProfile, type ColumnResult, type ConductiveGeotherm, type ModelOptions, type Scenario } from './types.js';
 import { depthKmFromPGpa, KELVIN_OFFSET, mPerSFromMmPerYr, PA_PER_GPA, wtPctFromPpm } from './units.js';
 
 /** Default cap on Newton steps per continuation stage. */
@@ -321,7 +321,24 @@ export function conductiveColumn(scenario: Scenario, model: ModelOptions, domain
   const out = controlled(scenario, model, domain);
   if (out.kind === 'failed') return failedResult(out.reason);
   if (out.kind === 'onset_beyond_range') return onsetBeyondRangeResult(out.reason);
-  return out.row;
+  if (model.withProfile !== true || (out.row.status !== 'ok' && out.row.status !== 'no_melt')) return out.row;
+  return { ...out.row, geotherm: geothermOf(out.state, model.params) };
+}
+
+/**
+ * The whole steady geotherm of a solved column: the surface (T_surface at P = 0) when there is a
+ * lid, inside which T is linear in depth (physics reference, conductive column: top), then the
+ * solver's nodes from the lid base down, and the far field's growth rate for below the domain.
+ */
+function geothermOf(st: ConductiveState, p: MeltParams): ConductiveGeotherm {
+  const withSurface = st.pGpa[0] > 0;
+  const n = st.pGpa.length + (withSurface ? 1 : 0);
+  const pGpa = new Float64Array(n);
+  const tC = new Float64Array(n);
+  if (withSurface) tC[0] = p.T_surface;
+  pGpa.set(st.pGpa, withSurface ? 1 : 0);
+  tC.set(st.tC, withSurface ? 1 : 0);
+  return { p_gpa: pGpa, t_c: tC, farFieldGrowthPerM: farFieldGrowthPerM(st.wMPerS, st.kappaM2S, p) };
 }
 
 /**

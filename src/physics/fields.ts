@@ -86,17 +86,17 @@ export type ProfileFieldName = (typeof PROFILE_FIELDS)[number]['name'];
  * Columns of the profile table (`run --profiles`): every scenario sampled on one fixed pressure
  * grid, in long format after `scenario_id`. Units are those of PROFILE_FIELDS and of the results'
  * productivity. Which rows hold values is decided in src/run/profile-sampling.ts: above the top of
- * the column (inside the lid) every value is null; between the onset and the top the computed path
- * is interpolated linearly in pressure; below the onset F = 0, productivity = 0, melt water null and
- * T on the solid adiabat (isentropic columns; null for conductive ones, whose path starts at the
- * onset). Rows of scenarios that were not computed (onset_beyond_range, failed) are null apart from
+ * an isentropic column (inside the lid) every value is null; between the onset and the top the
+ * computed path is interpolated linearly in pressure; below the onset F = 0, productivity = 0, melt
+ * water null and T on the solid adiabat (isentropic columns) or on the steady geotherm (conductive
+ * columns, whose T is given at every grid pressure, lid included). Rows of scenarios that were not computed (onset_beyond_range, failed) are null apart from
  * p_gpa and depth_km. The first five columns are those of PROFILE_FIELDS (name, unit, label) with
  * their own description.
  */
 export const PROFILE_TABLE_FIELDS = [
   { ...PROFILE_FIELDS[0], nullable: false, description: 'pressure of the grid point' },
   { ...PROFILE_FIELDS[1], nullable: false, description: 'depth of the grid point, z = P / (rho_s g)' },
-  { ...PROFILE_FIELDS[2], nullable: true, description: 'temperature (below the onset: solid adiabat of isentropic columns, null for conductive ones; null above the top of the column)' },
+  { ...PROFILE_FIELDS[2], nullable: true, description: 'temperature (isentropic columns: the path, the solid adiabat below the onset, null above the top of the column; conductive columns: the steady geotherm at every pressure, lid included)' },
   { ...PROFILE_FIELDS[3], nullable: true, description: 'melt fraction (mass fraction, 0-1; 0 below the onset)' },
   { ...PROFILE_FIELDS[4], nullable: true, description: 'water in the melt at that point (null where there is no melt)' },
   { name: 'productivity_pct_per_gpa', unit: '%/GPa', kind: 'float64', nullable: true, description: 'local productivity -dF/dP x 100: slope of the interpolated path at that point (0 below the onset)', label: 'productivity', displayUnit: '%/GPa' },

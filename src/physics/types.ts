@@ -93,6 +93,25 @@ export interface ColumnResult {
   /** only with deepOnset `cap`: melt fraction at the cap pressure of a capped row, else null */
   f_at_cap?: number | null;
   profile?: ColumnProfile;
+  /**
+   * only for conductive columns computed with withProfile: the whole steady geotherm on the
+   * solver's nodes (lid included, surface down to the bottom of the domain), for ok and no_melt rows
+   */
+  geotherm?: ConductiveGeotherm;
+}
+
+/**
+ * The temperature of a conductive column from the surface down: the solver's nodes (pressure
+ * ascending, from 0 at the surface to the bottom of its domain) and, below the domain, the
+ * sub-solidus steady far field T = Tp[K] exp(m+ z) the solver imposes there.
+ */
+export interface ConductiveGeotherm {
+  /** node pressures, GPa, ascending from the surface */
+  readonly p_gpa: Float64Array;
+  /** node temperatures, degC */
+  readonly t_c: Float64Array;
+  /** m+ of the far field, 1/m (see conductive-far-field.ts) */
+  readonly farFieldGrowthPerM: number;
 }
 
 /** Deepest pressure the model covers, GPa: onset deeper than this is `onset_beyond_range`. */
