@@ -250,9 +250,9 @@ type Controlled =
 /**
  * The grid-resolution control. With an explicit conductiveResolution: that grid, as before
  * tolerances existed. Otherwise the column is solved on grids of resolution r0, 2 r0, 4 r0, ... (every
- * spacing halved each time) until two successive grids agree: the scheme is second order, so the
- * finer grid's error is about a third of their difference (Richardson), and the finer grid is accepted
- * when that estimate is below the tolerance for every output (relative, with the absolute floors of
+ * spacing halved each time) until two successive grids agree: the finer grid is accepted when
+ * CONTROL_SAFETY times their difference (the error estimate; see there why 2 and not Richardson's 1/3)
+ * is below the tolerance for every output (relative, with the absolute floors of
  * CONDUCTIVE_ERROR_FLOORS). The first grid follows the tolerance, r0 = sqrt(1e-3 / tol) / 2 (at least
  * 1/4); past CONDUCTIVE_MAX_RESOLUTION the row fails with the estimate reached.
  */
